@@ -1,0 +1,139 @@
+"""What every check of one span shares: the input, the code, the section, the trace.
+
+The context computes each shared quantity once (the effective flange width, the bar depths,
+each flexural solution) so that checks can build on one another (shear takes its d from the
+flexural tension steel) without recomputing or reformatting anything.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+from ..bars import BarArrangement
+from ..codes import DesignCode, FlangeWidth
+from ..model import BeamInput, CheckResult, CheckStatus, Location, TraceLine
+from ..section import PlacedBars, Section, centroid_depth, place_bars
+from ..solve.flexure import FlexureSolution, SolverBar, solve_flexure
+
+Sense = Literal["pos", "neg"]
+End = Literal["left", "right"]
+
+N_PER_KN = 1e3
+NMM_PER_KNM = 1e6
+
+
+@dataclass(frozen=True)
+class FlexureCase:
+    """One flexural section: which bars are in tension and compression, and its solution."""
+
+    sense: Sense
+    location: Location
+    compression_face: Literal["top", "bottom"]
+    tension_bars: BarArrangement
+    tension_placed: tuple[PlacedBars, ...]  # depths below the tension face
+    compression_bars: BarArrangement | None
+    compression_placed: tuple[PlacedBars, ...]  # depths below the compression face
+    compression_tied: bool
+    d: float  # depth of the tension-steel centroid below the compression face (mm)
+    solution: FlexureSolution
+
+
+class SpanContext:
+    def __init__(self, inp: BeamInput, code: DesignCode):
+        self.inp = inp
+        self.code = code
+        self.phi_c = code.phi_c(inp.precast)
+        self.phi_s = code.phi_s()
+        self.block = code.stress_block(inp.fc)
+        self.trace: list[TraceLine] = []
+        self.values: dict[str, float | str | None] = {}
+        self.understood: dict[str, str] = {}
+        self.results: list[CheckResult] = []
+        self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
+        self.flange: FlangeWidth | None = None
+        bf = None
+        if inp.shape in ("T", "L") and inp.hf is not None:
+            self.flange = code.effective_flange_width(
+                inp.shape, inp.bw, inp.hf, inp.bf, inp.span or inp.clear_span,
+                inp.clear_to_next_web, self.continuous,
+            )
+            bf = self.flange.bf
+        self.section = Section(inp.shape, inp.bw, inp.h, inp.hf, bf)
+
+    # -- shared quantities -------------------------------------------------------------
+    @property
+    def continuous(self) -> bool:
+        """True when either end is continuous or free (the conservative reading for
+        cantilevers and one-end-continuous spans, where flange width limits differ)."""
+        return self.inp.left_end != "simple" or self.inp.right_end != "simple"
+
+    @property
+    def stirrup_db(self) -> float:
+        return self.inp.stirrups.bar.db if self.inp.stirrups else 0.0
+
+    def layer_clear(self, db_below: float, db_above: float) -> float:
+        if self.inp.layer_clear is not None:
+            return self.inp.layer_clear
+        return self.code.bar_clear_spacing(max(db_below, db_above), self.inp.agg)
+
+    def place(self, bars: BarArrangement, face: Literal["top", "bottom"], tension: bool) -> tuple[PlacedBars, ...]:
+        """Bars at a face, depths below that face; an explicit d applies to tension bars."""
+        inp = self.inp
+        cover = inp.cover_top if face == "top" else inp.cover_bottom
+        explicit = None
+        if tension:
+            d = inp.d_bottom if face == "bottom" else inp.d_top
+            explicit = None if d is None else inp.h - d
+        return place_bars(bars, cover, self.stirrup_db, self.layer_clear, explicit)
+
+    def add_trace(self, check: str, location: Location, symbol: str, value, unit: str, clause: str, description: str) -> None:
+        self.trace.append(TraceLine(check, location, symbol, value, unit, clause, description))
+
+    def add(self, result: CheckResult) -> CheckResult:
+        self.results.append(result)
+        return result
+
+    # -- flexure ----------------------------------------------------------------------
+    def bars_for(self, sense: Sense, location: Location) -> tuple[BarArrangement | None, BarArrangement | None, str]:
+        """(tension bars, compression bars, what the tension bars are called) for a case."""
+        inp = self.inp
+        if sense == "pos":
+            if location == "mid":
+                return inp.bottom_bars, inp.top_bars_mid, "bottom bars"
+            return inp.bottom_bars_support, inp.top_bars_at(location), "bottom bars at the support"  # type: ignore[arg-type]
+        if location == "mid":
+            raise ValueError("hogging is checked at the supports")
+        return inp.top_bars_at(location), inp.bottom_bars_support, f"top bars at the {location} support"  # type: ignore[arg-type]
+
+    def flexure(self, sense: Sense, location: Location) -> FlexureCase | str:
+        """The flexural solution at a location, or the reason there is none."""
+        key = (sense, location)
+        if key not in self._flexure:
+            self._flexure[key] = self._solve(sense, location)
+        return self._flexure[key]
+
+    def _solve(self, sense: Sense, location: Location) -> FlexureCase | str:
+        inp = self.inp
+        tension, compression, name = self.bars_for(sense, location)
+        if tension is None:
+            return f"no {name} scheduled"
+        comp_face = "top" if sense == "pos" else "bottom"
+        tens_face = "bottom" if sense == "pos" else "top"
+        t_placed = self.place(tension, tens_face, tension=True)
+        c_placed = self.place(compression, comp_face, tension=False) if compression else ()
+        tied = inp.stirrups is not None
+        solver_bars = tuple(
+            SolverBar(p.area, inp.h - p.depth, p.db, f"{p.count}-{p.size} layer {p.layer}", True, True)
+            for p in t_placed
+        ) + tuple(
+            SolverBar(p.area, p.depth, p.db, f"{p.count}-{p.size} layer {p.layer} (compression)", tied, False)
+            for p in c_placed
+        )
+        sol = solve_flexure(
+            self.section.outline_from(comp_face), solver_bars, fc=inp.fc, fy=inp.fy,
+            phi_c=self.phi_c, phi_s=self.phi_s, Es=self.code.Es, alpha1=self.block.alpha1,
+            beta1=self.block.beta1, eps_cu=self.block.eps_cu,
+        )
+        d = inp.h - centroid_depth(t_placed)
+        return FlexureCase(sense, location, comp_face, tension, t_placed, compression, c_placed, tied, d, sol)

@@ -1,0 +1,128 @@
+"""Check one span: validate the input, run every check, gather a :class:`BeamResult`."""
+
+from __future__ import annotations
+
+import math
+
+from .checks import CHECK_MODULES
+from .checks.context import SpanContext
+from .codes import DesignCode, get_code
+from .model import BeamInput, BeamResult, BeamStatus, Problem, beam_status
+
+# Field names as the schedule calls them, for messages.
+FIELD_LABELS = {
+    "bw": "bw", "h": "h", "hf": "hf", "bf": "bf", "fc": "f'c", "fy": "fy", "fyt": "fyt",
+    "d_bottom": "d", "d_top": "d top", "cover_top": "Cover top", "cover_bottom": "Cover bottom",
+    "span": "Span", "clear_span": "Clear span", "agg": "Agg", "clear_to_next_web": "Clear to next web",
+    "Mf_pos": "Mf+", "Mf_pos_left": "Mf+ L", "Mf_pos_right": "Mf+ R", "lam": "λ", "qty": "Qty",
+    "layer_clear": "Layer clear distance",
+}
+
+
+def validate(inp: BeamInput, code: DesignCode) -> list[Problem]:
+    """Everything about a span that would make a computed number wrong, as problems."""
+    out: list[Problem] = []
+
+    def bad(field: str, value, expected: str) -> None:
+        out.append(Problem(f"{FIELD_LABELS.get(field, field)} = {value!r}: expected {expected}",
+                           FIELD_LABELS.get(field, field), value, inp.row))
+
+    def finite(field: str) -> bool:
+        v = getattr(inp, field)
+        if v is None:
+            return False
+        if not isinstance(v, (int, float)) or not math.isfinite(v):
+            bad(field, v, "a finite number")
+            return False
+        return True
+
+    for f in ("bw", "h", "fc", "fy"):
+        if finite(f) and getattr(inp, f) <= 0:
+            bad(f, getattr(inp, f), "a positive number")
+    for f in ("fyt", "span", "clear_span", "agg", "clear_to_next_web", "layer_clear", "hf", "bf", "d_bottom", "d_top"):
+        if finite(f) and getattr(inp, f) <= 0:
+            bad(f, getattr(inp, f), "a positive number")
+    for f in ("cover_top", "cover_bottom"):
+        if finite(f) and getattr(inp, f) < 0:
+            bad(f, getattr(inp, f), "zero or more (clear cover to the stirrups, mm)")
+    for f in ("Mf_pos", "Mf_pos_left", "Mf_pos_right"):
+        if finite(f) and getattr(inp, f) < 0:
+            bad(f, getattr(inp, f) / 1e6, "zero or more kN·m (sagging); hogging belongs in Mf-")
+    if inp.shape not in ("rect", "T", "L"):
+        bad("shape", inp.shape, "Rect, T or L")
+    if not (0 < inp.lam <= 1.0):
+        bad("lam", inp.lam, "0.75, 0.85 or 1.0 (cl. 8.6.5)")
+    if out:
+        return out
+    if inp.shape in ("T", "L"):
+        if inp.hf is None:
+            bad("hf", None, f"the flange thickness of a {inp.shape}-beam")
+        elif inp.hf >= inp.h:
+            bad("hf", inp.hf, f"less than h = {inp.h:g} mm")
+        if inp.bf is not None and inp.bf < inp.bw:
+            bad("bf", inp.bf, f"at least bw = {inp.bw:g} mm")
+        if inp.bf is None and inp.hf is not None and inp.span is None and inp.clear_span is None and inp.clear_to_next_web is None:
+            pass  # 12 hf / 6 hf still bounds the width: it is computed and flagged
+    for f in ("d_bottom", "d_top"):
+        v = getattr(inp, f)
+        if v is not None and v >= inp.h:
+            bad(f, v, f"less than h = {inp.h:g} mm")
+    if inp.span is not None and inp.clear_span is not None and inp.clear_span > inp.span:
+        bad("clear_span", inp.clear_span, f"no more than the span, {inp.span:g} mm")
+    for err in code.material_errors(inp.fc, inp.fy, inp.fyt):
+        out.append(Problem(f"{err.field} = {err.value:g} MPa: expected {err.expected}", err.field, err.value, inp.row))
+    return out
+
+
+def _understood(ctx: SpanContext) -> None:
+    """What the tool took from the row, in words, for the results table."""
+    inp, u = ctx.inp, ctx.understood
+    if ctx.flange is not None:
+        f = ctx.flange
+        if f.computed:
+            why = f"computed: {f.governing} governs (cl. {f.clause})"
+        elif f.reduced:
+            why = f"reduced from {inp.bf:g} mm: {f.governing} governs (cl. {f.clause})"
+        else:
+            why = f"as scheduled, within the limit of cl. {f.clause} ({min(f.limits.values()):.0f} mm overhang)"
+        u["bf used"] = f"{f.bf:.0f} mm, {why}"
+        ctx.values["bf_eff_mm"] = f.bf
+        for words, value in f.limits.items():
+            ctx.add_trace("section", None, "overhang limit", value, "mm", f.clause, words)
+        ctx.add_trace("section", None, "bf", f.bf, "mm", f.clause, f"effective flange width ({why})")
+    faces = {
+        "bottom bars": (inp.bottom_bars, "bottom", True),
+        "top bars L": (inp.top_bars_left, "top", True),
+        "top bars R": (inp.top_bars_right, "top", True),
+        "top bars mid": (inp.top_bars_mid, "top", False),
+        "bottom bars at supports": (inp.bottom_bars_support, "bottom", True),
+    }
+    for name, (bars, face, tension) in faces.items():
+        if bars is None:
+            continue
+        placed = ctx.place(bars, face, tension)  # type: ignore[arg-type]
+        depths = ", ".join(f"{p.count}-{p.size} at {inp.h - p.depth:.1f}" for p in placed)
+        u[name] = f"{bars}: As = {bars.area:.0f} mm²; d = {depths} mm" + (
+            " (explicit d, lumped)" if placed and placed[0].lumped else "")
+
+
+def check_beam(inp: BeamInput, code: DesignCode | str | None = None) -> BeamResult:
+    """Check one span against the design code (CSA A23.3-19 by default).
+
+    Returns a :class:`BeamResult`; input that the standard does not cover gives a result with
+    status ``error`` and problems naming each field, never a number.
+    """
+    code = code if isinstance(code, DesignCode) else get_code(code)
+    problems = validate(inp, code)
+    if problems:
+        return BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR, problems=tuple(problems),
+                          assumed=inp.assumed, input=inp)
+    ctx = SpanContext(inp, code)
+    _understood(ctx)
+    for module in CHECK_MODULES:
+        module.run(ctx)
+    checks = tuple(ctx.results)
+    return BeamResult(
+        inp.mark, inp.span_no, inp.row, beam_status(checks), checks=checks, values=dict(ctx.values),
+        trace=tuple(ctx.trace), assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
+    )

@@ -1,0 +1,208 @@
+"""The typed contracts between the parts of beamsched.
+
+Inside beamsched every quantity is SI in the engine's units: lengths in mm, stresses in MPa,
+forces in N and moments in N·mm. Units are converted at the edges (the schedule reader on the
+way in; results carry display units, kN and kN·m, in their field names or ``unit`` fields).
+
+* :class:`BeamInput` is one span of one beam, as the schedule reader (or the Python API) hands
+  it to the checks.
+* :class:`CheckResult` is one check at one location; :class:`BeamResult` gathers them with the
+  values, the calculation trace, and the problems and defaults that belong to the row.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from enum import Enum
+from typing import Literal, Optional
+
+from .bars import BarArrangement, Stirrups
+
+Shape = Literal["rect", "T", "L"]
+EndCondition = Literal["simple", "continuous", "free"]
+Location = Optional[Literal["left", "mid", "right"]]
+Exposure = Literal["interior", "exterior"]
+
+
+class CheckStatus(str, Enum):
+    PASS = "pass"
+    FAIL = "fail"
+    NOT_CHECKED = "not_checked"
+
+
+class BeamStatus(str, Enum):
+    PASS = "pass"
+    FAIL = "fail"
+    INCOMPLETE = "incomplete"
+    ERROR = "error"
+
+
+@dataclass(frozen=True)
+class Problem:
+    """Something wrong with the input: where it is, what was found and what was expected."""
+
+    message: str
+    column: str | None = None
+    value: object = None
+    row: int | None = None
+    severity: Literal["error", "warning"] = "error"
+
+
+@dataclass(frozen=True)
+class BeamInput:
+    """One span of one beam, in engine units (mm, MPa, N, N·mm).
+
+    Bars:
+      ``bottom_bars``          bottom bars at midspan (tension under sagging, Mf+)
+      ``top_bars_left/right``  top bars at each support (tension under hogging, Mf-)
+      ``top_bars_mid``         top bars at midspan (compression steel under Mf+), optional
+      ``bottom_bars_support``  bottom bars at the supports (tension under Mf+ at a support,
+                               compression steel under Mf-), optional
+    Demands are factored; ``None`` means "not scheduled", never zero. ``Mf_neg_*`` are
+    magnitudes of hogging moments.
+    """
+
+    mark: str
+    shape: Shape
+    bw: float
+    h: float
+    fc: float
+    fy: float
+    span_no: int | None = None
+    row: int | None = None
+    qty: int = 1
+    hf: float | None = None
+    bf: float | None = None
+    clear_to_next_web: float | None = None
+    span: float | None = None  # centre-to-centre span (mm)
+    clear_span: float | None = None  # clear span ln (mm)
+    left_end: EndCondition = "simple"
+    right_end: EndCondition = "simple"
+    cover_top: float = 40.0  # clear cover to the stirrups (mm)
+    cover_bottom: float = 40.0
+    bottom_bars: BarArrangement | None = None
+    top_bars_left: BarArrangement | None = None
+    top_bars_right: BarArrangement | None = None
+    top_bars_mid: BarArrangement | None = None
+    bottom_bars_support: BarArrangement | None = None
+    stirrups: Stirrups | None = None
+    d_bottom: float | None = None  # explicit d of the bottom bars, from the top face (mm)
+    d_top: float | None = None  # explicit d of the top bars, from the bottom face (mm)
+    fyt: float | None = None  # stirrup yield strength; None: same as fy
+    agg: float = 20.0  # maximum aggregate size (mm)
+    lam: float = 1.0  # concrete density factor lambda (8.6.5)
+    density: str = "normal"
+    exposure: Exposure = "exterior"
+    precast: bool = False  # made in a plant certified to CSA A23.4
+    sfrs: bool | None = None  # member of the seismic force-resisting system
+    layer_clear: float | None = None  # clear distance between bar layers (mm); None: code rule
+    Mf_pos: float | None = None  # factored sagging moment at midspan (N·mm)
+    Mf_neg_left: float | None = None  # factored hogging moment magnitude at each support
+    Mf_neg_right: float | None = None
+    Mf_pos_left: float | None = None  # factored sagging moment at each support (reversal)
+    Mf_pos_right: float | None = None
+    Vf_left: float | None = None  # factored shear at each end (N)
+    Vf_right: float | None = None
+    Tf: float | None = None  # factored torsion (N·mm)
+    Pf: float | None = None  # factored axial load, compression positive (N)
+    Ms_pos: float | None = None  # service moments for crack control (N·mm), optional
+    Ms_neg: float | None = None
+    notes: str = ""
+    assumed: tuple[str, ...] = ()  # what this span took from defaults, in words
+    source: dict[str, str] = field(default_factory=dict, compare=False)  # scheduled text
+
+    @property
+    def label(self) -> str:
+        return self.mark if self.span_no is None else f"{self.mark} span {self.span_no}"
+
+    @property
+    def fyt_eff(self) -> float:
+        return self.fy if self.fyt is None else self.fyt
+
+    def top_bars_at(self, end: Literal["left", "right"]) -> BarArrangement | None:
+        return self.top_bars_left if end == "left" else self.top_bars_right
+
+    def end_condition(self, end: Literal["left", "right"]) -> EndCondition:
+        return self.left_end if end == "left" else self.right_end
+
+
+@dataclass(frozen=True)
+class TraceLine:
+    """One line of working: what, its symbol, value and unit, and the clause it comes from."""
+
+    check: str  # the check id (or "section", "materials") this line belongs to
+    location: Location
+    symbol: str
+    value: float | str | None
+    unit: str
+    clause: str
+    description: str
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    """One check at one location, in display units (kN, kN·m, mm, mm², N/mm)."""
+
+    id: str  # stable machine id: flexure_pos, flexure_neg, shear, cd_limit_pos, ...
+    label: str  # short display label
+    location: Location
+    clause: str
+    status: CheckStatus
+    message: str  # plain note for a drafter; always set for fail and not_checked
+    demand: float | None = None
+    capacity: float | None = None
+    unit: str = ""
+    utilisation: float | None = None
+    required: bool = True  # a check the standard requires for a span to pass
+
+    @property
+    def key(self) -> str:
+        return self.id if self.location is None else f"{self.id}@{self.location}"
+
+
+@dataclass(frozen=True)
+class BeamResult:
+    """Everything known about one span after checking: the report writers read only this."""
+
+    mark: str
+    span_no: int | None
+    row: int | None
+    status: BeamStatus
+    checks: tuple[CheckResult, ...] = ()
+    values: dict[str, float | str | None] = field(default_factory=dict)
+    trace: tuple[TraceLine, ...] = ()
+    problems: tuple[Problem, ...] = ()
+    assumed: tuple[str, ...] = ()
+    understood: dict[str, str] = field(default_factory=dict)  # what the tool read, in words
+    input: BeamInput | None = None
+
+    @property
+    def label(self) -> str:
+        return self.mark if self.span_no is None else f"{self.mark} span {self.span_no}"
+
+    @property
+    def utilisation(self) -> float | None:
+        """The largest utilisation of any check made (None when none was made)."""
+        values = [c.utilisation for c in self.checks if c.utilisation is not None]
+        return max(values) if values else None
+
+    @property
+    def governing(self) -> CheckResult | None:
+        """The check with the largest utilisation."""
+        made = [c for c in self.checks if c.utilisation is not None]
+        return max(made, key=lambda c: c.utilisation) if made else None
+
+    @property
+    def not_checked(self) -> tuple[CheckResult, ...]:
+        return tuple(c for c in self.checks if c.status is CheckStatus.NOT_CHECKED)
+
+
+def beam_status(checks: tuple[CheckResult, ...] | list[CheckResult]) -> BeamStatus:
+    """A span passes only when every required check was made and passed (issue contract)."""
+    if any(c.status is CheckStatus.FAIL for c in checks):
+        return BeamStatus.FAIL
+    if any(c.status is CheckStatus.NOT_CHECKED and c.required for c in checks):
+        return BeamStatus.INCOMPLETE
+    if not checks:
+        return BeamStatus.INCOMPLETE
+    return BeamStatus.PASS

@@ -1,0 +1,1 @@
+"""Generic solvers: strain compatibility for flexure; shear resistance."""

@@ -1,0 +1,168 @@
+"""Flexural resistance by strain compatibility with an equivalent rectangular stress block.
+
+One solver for every case. The caller describes the section as seen from its compression face
+(the outline as bands, the bars by depth below that face) with the factored material strengths;
+sagging and hogging differ only in which face is on top. The solver finds the neutral-axis depth
+c at which the forces balance, with the concrete crushing strain at the compression face, each
+bar at its own strain (stress capped at fy, never assumed to yield), and returns the resistance
+with every intermediate value the trace needs.
+
+Sign convention: forces in compression are positive; depths grow from the compression face.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from ..section import Rect
+
+__all__ = ["SolverBar", "FlexureSolution", "BarState", "solve_flexure"]
+
+
+@dataclass(frozen=True)
+class SolverBar:
+    area: float  # mm²
+    depth: float  # centre below the compression face (mm)
+    db: float  # diameter (mm): the band of concrete it displaces
+    label: str
+    counted: bool = True  # False: an untied compression bar, carrying no stress
+    tension_steel: bool = True  # True: part of the flexural tension steel (for d and c/d)
+
+
+@dataclass(frozen=True)
+class BarState:
+    bar: SolverBar
+    strain: float  # compression positive
+    stress: float  # MPa, compression positive, |fs| <= fy
+    force: float  # N: phi_s As fs less the displaced concrete, compression positive
+    displaced: float  # N: concrete force deducted for the area the bar displaces
+
+
+@dataclass(frozen=True)
+class FlexureSolution:
+    Mr: float  # N·mm, factored resistance
+    c: float  # neutral-axis depth (mm)
+    a: float  # stress-block depth beta1 c (mm)
+    d: float  # depth of the centroid of the flexural tension steel (mm)
+    Cc: float  # concrete compression force (N)
+    yc: float  # depth of its centroid below the compression face (mm)
+    block_area: float  # area of the stress block (mm²)
+    C_total: float  # all compression, concrete and steel (N)
+    y_C: float  # where the total compression acts (mm)
+    T: float  # all tension (N)
+    y_T: float  # where the tension acts (mm)
+    lever_arm: float  # y_T - y_C (mm)
+    bars: tuple[BarState, ...]
+    trial_a: float  # flange-only trial: a with all tension steel yielding, first band wide
+    trial_in_first_band: bool
+    block_in_first_band: bool
+    alpha1: float
+    beta1: float
+    eps_cu: float
+    fc_factored: float  # alpha1 phi_c f'c (MPa)
+    fy_factored: float  # phi_s fy (MPa)
+    As: float  # area of the flexural tension steel (mm²)
+    residual: float  # force imbalance at the solution (N)
+
+    @property
+    def c_over_d(self) -> float:
+        return self.c / self.d if self.d > 0 else math.inf
+
+
+def _block(outline: tuple[Rect, ...], a: float) -> tuple[float, float]:
+    """Area of the outline above depth a and its first moment about the compression face."""
+    area = moment = 0.0
+    for r in outline:
+        top, bottom = r.y0, min(r.y1, a)
+        if bottom <= top:
+            break
+        band = r.width * (bottom - top)
+        area += band
+        moment += band * (top + bottom) / 2
+    return area, moment
+
+
+def _overlap(bar: SolverBar, a: float) -> float:
+    """Fraction of a bar's area lying above depth a (its area spread evenly over its diameter,
+    so that the displaced concrete enters the balance smoothly)."""
+    if bar.db <= 0:
+        return 1.0 if bar.depth < a else 0.0
+    top = bar.depth - bar.db / 2
+    return min(max((a - top) / bar.db, 0.0), 1.0)
+
+
+def solve_flexure(
+    outline: tuple[Rect, ...],
+    bars: tuple[SolverBar, ...],
+    *,
+    fc: float,
+    fy: float,
+    phi_c: float,
+    phi_s: float,
+    Es: float,
+    alpha1: float,
+    beta1: float,
+    eps_cu: float,
+) -> FlexureSolution:
+    """Find c such that the forces balance, and the factored resistance Mr (N·mm)."""
+    h = max(r.y1 for r in outline)
+    fcd = alpha1 * phi_c * fc  # stress-block intensity
+    fyd = phi_s * fy
+    tension = [b for b in bars if b.tension_steel]
+    As = sum(b.area for b in tension)
+    d = sum(b.area * b.depth for b in tension) / As if As > 0 else 0.0
+
+    def states(c: float) -> tuple[float, float, float, list[BarState]]:
+        a = beta1 * c
+        area, first = _block(outline, a)
+        out = []
+        for b in bars:
+            strain = eps_cu * (c - b.depth) / c
+            stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
+            displaced = fcd * b.area * _overlap(b, a)
+            out.append(BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced))
+        return a, area, first, out
+
+    def imbalance(c: float) -> float:
+        _, area, _, st = states(c)
+        return fcd * area + sum(s.force for s in st)
+
+    trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
+    if As <= 0:
+        return FlexureSolution(
+            0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, (), 0.0, True, True,
+            alpha1, beta1, eps_cu, fcd, fyd, 0.0, 0.0,
+        )
+    lo, hi = 1e-9 * h, h
+    while imbalance(hi) < 0:  # grows only for sections with more steel than concrete can balance
+        hi *= 2
+        if hi > 1e3 * h:
+            raise ArithmeticError("no neutral axis balances the forces")
+    for _ in range(200):
+        mid = 0.5 * (lo + hi)
+        if imbalance(mid) < 0:
+            lo = mid
+        else:
+            hi = mid
+        if hi - lo <= 1e-10 * h:
+            break
+    c = 0.5 * (lo + hi)
+    a, area, first, st = states(c)
+    Cc = fcd * area
+    yc = first / area if area > 0 else 0.0
+    comp = [(s.force, s.bar.depth) for s in st if s.force > 0]
+    tens = [(-s.force, s.bar.depth) for s in st if s.force < 0]
+    C_total = Cc + sum(f for f, _ in comp)
+    y_C = (Cc * yc + sum(f * y for f, y in comp)) / C_total if C_total > 0 else 0.0
+    T = sum(f for f, _ in tens)
+    y_T = sum(f * y for f, y in tens) / T if T > 0 else 0.0
+    Mr = -(Cc * yc + sum(s.force * s.bar.depth for s in st))
+    residual = Cc + sum(s.force for s in st)
+    return FlexureSolution(
+        Mr=Mr, c=c, a=a, d=d, Cc=Cc, yc=yc, block_area=area, C_total=C_total, y_C=y_C, T=T,
+        y_T=y_T, lever_arm=y_T - y_C, bars=tuple(st), trial_a=trial_a,
+        trial_in_first_band=trial_a <= outline[0].y1, block_in_first_band=a <= outline[0].y1,
+        alpha1=alpha1, beta1=beta1, eps_cu=eps_cu, fc_factored=fcd, fy_factored=fyd, As=As,
+        residual=residual,
+    )
