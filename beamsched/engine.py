@@ -7,7 +7,7 @@ import math
 from .checks import CHECK_MODULES
 from .checks.context import SpanContext
 from .codes import DesignCode, get_code
-from .model import BeamInput, BeamResult, BeamStatus, Problem, beam_status
+from .model import BeamInput, BeamResult, BeamStatus, Problem, RowFailure, Schedule, beam_status
 
 # Field names as the schedule calls them, for messages.
 FIELD_LABELS = {
@@ -115,8 +115,8 @@ def check_beam(inp: BeamInput, code: DesignCode | str | None = None) -> BeamResu
     code = code if isinstance(code, DesignCode) else get_code(code)
     problems = validate(inp, code)
     if problems:
-        return BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR, problems=tuple(problems),
-                          assumed=inp.assumed, input=inp)
+        return BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR,
+                          problems=tuple(problems) + inp.warnings, assumed=inp.assumed, input=inp)
     ctx = SpanContext(inp, code)
     _understood(ctx)
     for module in CHECK_MODULES:
@@ -124,5 +124,19 @@ def check_beam(inp: BeamInput, code: DesignCode | str | None = None) -> BeamResu
     checks = tuple(ctx.results)
     return BeamResult(
         inp.mark, inp.span_no, inp.row, beam_status(checks), checks=checks, values=dict(ctx.values),
-        trace=tuple(ctx.trace), assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
+        trace=tuple(ctx.trace), problems=inp.warnings, assumed=inp.assumed,
+        understood=dict(ctx.understood), input=inp,
     )
+
+
+def check_schedule(schedule: Schedule, code: DesignCode | str | None = None) -> list[BeamResult]:
+    """Check every row of a schedule, in schedule order; unreadable rows come back as
+    ``error`` results carrying their problems, so nothing is lost."""
+    code = code if isinstance(code, DesignCode) else get_code(code or schedule.code)
+    out = []
+    for row in schedule.rows:
+        if isinstance(row, RowFailure):
+            out.append(BeamResult(row.mark, row.span_no, row.row, BeamStatus.ERROR, problems=row.problems))
+        else:
+            out.append(check_beam(row, code))
+    return out

@@ -107,8 +107,11 @@ class BeamInput:
     Pf: float | None = None  # factored axial load, compression positive (N)
     Ms_pos: float | None = None  # service moments for crack control (N·mm), optional
     Ms_neg: float | None = None
+    skin_bars: BarArrangement | None = None  # skin reinforcement on each side face (10.6.2)
+    epoxy: bool = False  # epoxy-coated bars
     notes: str = ""
     assumed: tuple[str, ...] = ()  # what this span took from defaults, in words
+    warnings: tuple[Problem, ...] = ()  # reader warnings that did not stop the check
     source: dict[str, str] = field(default_factory=dict, compare=False)  # scheduled text
 
     @property
@@ -206,3 +209,39 @@ def beam_status(checks: tuple[CheckResult, ...] | list[CheckResult]) -> BeamStat
     if not checks:
         return BeamStatus.INCOMPLETE
     return BeamStatus.PASS
+
+
+@dataclass(frozen=True)
+class RowFailure:
+    """A schedule row that could not be turned into a :class:`BeamInput`."""
+
+    mark: str
+    span_no: int | None
+    row: int | None
+    problems: tuple[Problem, ...]
+
+
+@dataclass(frozen=True)
+class Schedule:
+    """A whole schedule as read: every row in schedule order, and what the reader saw."""
+
+    path: str
+    sheet: str
+    header_row: int | None  # 1-based spreadsheet row of the header (None for CSV line 1)
+    rows: tuple[BeamInput | RowFailure, ...]
+    problems: tuple[Problem, ...] = ()  # file-level problems (not tied to one row)
+    project: dict[str, str] = field(default_factory=dict)  # title block from Parameters
+    code: str = "CSA A23.3-19"
+    units_assumed: tuple[str, ...] = ()
+    columns: dict[str, str] = field(default_factory=dict)  # field -> header label seen
+    defaults: dict[str, str] = field(default_factory=dict)  # defaults in force, in words
+    file_sha256: str = ""
+    file_modified: str = ""  # ISO date-time of the input file
+
+    @property
+    def spans(self) -> tuple[BeamInput, ...]:
+        return tuple(r for r in self.rows if isinstance(r, BeamInput))
+
+    @property
+    def failures(self) -> tuple[RowFailure, ...]:
+        return tuple(r for r in self.rows if isinstance(r, RowFailure))
