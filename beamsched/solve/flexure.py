@@ -84,12 +84,17 @@ def _block(outline: tuple[Rect, ...], a: float) -> tuple[float, float]:
 
 
 def _overlap(bar: SolverBar, a: float) -> float:
-    """Fraction of a bar's area lying above depth a (its area spread evenly over its diameter,
-    so that the displaced concrete enters the balance smoothly)."""
+    """Fraction of a round bar's area lying above depth a (the circular segment), so that the
+    concrete a bar displaces enters the balance smoothly as the block edge crosses it."""
     if bar.db <= 0:
         return 1.0 if bar.depth < a else 0.0
-    top = bar.depth - bar.db / 2
-    return min(max((a - top) / bar.db, 0.0), 1.0)
+    t = (a - (bar.depth - bar.db / 2)) / bar.db
+    if t <= 0.0:
+        return 0.0
+    if t >= 1.0:
+        return 1.0
+    theta = 2.0 * math.acos(1.0 - 2.0 * t)
+    return (theta - math.sin(theta)) / (2.0 * math.pi)
 
 
 def solve_flexure(
