@@ -38,8 +38,8 @@ N_CASES = 240
 SIZES = ["15M", "20M", "25M", "30M", "35M"]
 
 
-def _layer(rng: random.Random, bw: float, side: float, max_bars: int) -> BarLayer:
-    sizes = rng.sample(SIZES, k=rng.choice([1, 1, 2]))
+def _layer(rng: random.Random, bw: float, side: float, max_bars: int, sizes: list[str] = SIZES) -> BarLayer:
+    sizes = rng.sample(sizes, k=min(len(sizes), rng.choice([1, 1, 2])))
     groups = []
     for size in sizes:
         groups.append(BarGroup(rng.randint(1 if len(sizes) > 1 else 2, max(2, max_bars // len(sizes))),
@@ -71,10 +71,11 @@ def make_case(i: int) -> tuple[BeamInput, str]:
     side = cover + stirrups.bar.db
     n_layers = rng.choice([1, 1, 2, 2, 3])
     heavy = i % 7 == 0  # over-reinforced: the tension steel stays elastic
-    tension = BarArrangement(tuple(_layer(rng, bw, side, 8 if heavy else 5) for _ in range(n_layers)))
     if heavy:
-        tension = BarArrangement(tuple(
-            BarLayer(tuple(BarGroup(g.count, CATALOGUE["35M"]) for g in layer.groups)) for layer in tension.layers))
+        h = rng.choice(range(400, 650, 50))
+        n_layers = 3
+    tension = BarArrangement(tuple(_layer(rng, bw, side, 8 if heavy else 5, ["35M"] if heavy else SIZES)
+                                   for _ in range(n_layers)))
     compression = BarArrangement((_layer(rng, bw, side, 3),)) if i % 2 == 0 else None
     common = dict(hf=hf, bf=bf, cover_top=cover, cover_bottom=cover, stirrups=stirrups, agg=20,
                   span=None, left_end="continuous", right_end="continuous", clear_to_next_web=None)
