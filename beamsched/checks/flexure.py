@@ -12,7 +12,11 @@ from __future__ import annotations
 
 import math
 
+from dataclasses import replace
+
 from ..model import CheckResult, CheckStatus, Location
+from ..solve.flexure import solve_flexure
+from ..solve.roots import bracketed_root
 from .context import NMM_PER_KNM, FlexureCase, Sense, SpanContext
 
 SENSE_WORDS = {"pos": "sagging", "neg": "hogging"}
@@ -156,8 +160,6 @@ def _cd_limit(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase) 
 def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
     """As required for Mf: the tension steel, at the scheduled positions, scaled until Mr = Mf
     (solved by bisection on the strain-compatibility solver, not by ratio)."""
-    from dataclasses import replace
-    from ..solve.flexure import solve_flexure
 
     sol = case.solution
     if mf <= 0:
@@ -171,20 +173,16 @@ def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
         return solve_flexure(outline, bars, fc=inp.fc, fy=inp.fy, phi_c=ctx.phi_c, phi_s=ctx.phi_s,
                              Es=ctx.code.Es, alpha1=sol.alpha1, beta1=sol.beta1, eps_cu=sol.eps_cu).Mr
 
-    lo, hi = 0.0, 1.0
-    while mr(hi) < mf:
+    lo, hi, f_lo = 0.0, 1.0, -mf
+    f_hi = mr(hi) - mf
+    while f_hi < 0:
+        lo, f_lo = hi, f_hi
         hi *= 2
         if hi > 64:
             return math.inf  # no amount of this steel reaches Mf: the concrete governs
-    for _ in range(60):
-        mid = 0.5 * (lo + hi)
-        if mr(mid) < mf:
-            lo = mid
-        else:
-            hi = mid
-        if hi - lo < 1e-7:
-            break
-    return hi * sol.As
+        f_hi = mr(hi) - mf
+    k = bracketed_root(lambda k: mr(k) - mf, lo, hi, f_lo, f_hi, tol_f=1e-7 * mf, tol_x=1e-9)
+    return k * sol.As
 
 
 def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase) -> None:

@@ -16,6 +16,7 @@ import math
 from dataclasses import dataclass
 
 from ..section import Rect
+from .roots import bracketed_root
 
 __all__ = ["SolverBar", "FlexureSolution", "BarState", "solve_flexure"]
 
@@ -129,9 +130,23 @@ def solve_flexure(
             out.append(BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced))
         return a, area, first, out
 
+    areas = [b.area for b in bars]
+    depths = [b.depth for b in bars]
+    tops = [b.depth - b.db / 2 for b in bars]
+    counted = [b.counted for b in bars]
+
     def imbalance(c: float) -> float:
-        _, area, _, st = states(c)
-        return fcd * area + sum(s.force for s in st)
+        """Net compression (N) at neutral-axis depth c; increases with c."""
+        a = beta1 * c
+        area, _ = _block(outline, a)
+        total = fcd * area
+        for i, b in enumerate(bars):
+            if counted[i]:
+                strain = eps_cu * (c - depths[i]) / c
+                total += phi_s * areas[i] * max(-fy, min(fy, Es * strain))
+            if a > tops[i]:
+                total -= fcd * areas[i] * _overlap(b, a)
+        return total
 
     trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
     if As <= 0:
@@ -140,19 +155,14 @@ def solve_flexure(
             alpha1, beta1, eps_cu, fcd, fyd, 0.0, 0.0,
         )
     lo, hi = 1e-9 * h, h
-    while imbalance(hi) < 0:  # grows only for sections with more steel than concrete can balance
+    f_lo, f_hi = imbalance(lo), imbalance(hi)
+    while f_hi < 0:  # grows only for sections with more steel than concrete can balance
+        lo, f_lo = hi, f_hi
         hi *= 2
         if hi > 1e3 * h:
             raise ArithmeticError("no neutral axis balances the forces")
-    for _ in range(200):
-        mid = 0.5 * (lo + hi)
-        if imbalance(mid) < 0:
-            lo = mid
-        else:
-            hi = mid
-        if hi - lo <= 1e-10 * h:
-            break
-    c = 0.5 * (lo + hi)
+        f_hi = imbalance(hi)
+    c = bracketed_root(imbalance, lo, hi, f_lo, f_hi, tol_f=1e-9 * fyd * As, tol_x=1e-12 * h)
     a, area, first, st = states(c)
     Cc = fcd * area
     yc = first / area if area > 0 else 0.0
