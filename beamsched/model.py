@@ -14,13 +14,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from enum import Enum
-from typing import Literal, Optional
+from typing import Literal
 
 from .bars import BarArrangement, Stirrups
 
 Shape = Literal["rect", "T", "L"]
 EndCondition = Literal["simple", "continuous", "free"]
-Location = Optional[Literal["left", "mid", "right"]]
+Location = Literal["left", "mid", "right"] | None
 Exposure = Literal["interior", "exterior"]
 
 

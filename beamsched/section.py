@@ -8,8 +8,9 @@ in compression, the flange in tension).
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Callable, Literal
+from typing import Literal
 
 from .bars import BarArrangement
 

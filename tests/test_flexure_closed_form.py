@@ -6,10 +6,10 @@ import math
 import pytest
 
 from beamsched import check_span
+from beamsched.bars import parse_bars, parse_stirrups
 from beamsched.checks.context import SpanContext
 from beamsched.codes import get_code
 from beamsched.model import BeamInput
-from beamsched.bars import parse_bars, parse_stirrups
 
 PHI_C, PHI_S, ES, ECU = 0.65, 0.85, 200_000.0, 0.0035  # CSA A23.3-19 cl. 8.4.2, 8.4.3, 8.5.4.1, 10.1.3
 

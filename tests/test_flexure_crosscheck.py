@@ -120,7 +120,7 @@ def concreteproperties_mr(inp: BeamInput, ctx: SpanContext, sense: str) -> float
             bars = [(p, k) for p in groups for k in range(p.count)]
             side = inp.cover_bottom + inp.stirrups.bar.db
             xs = [side + (bw - 2 * side) * (j + 0.5) / len(bars) for j in range(len(bars))]
-            for x, (p, _) in zip(xs, bars):
+            for x, (p, _) in zip(xs, bars, strict=True):
                 y = p.depth if face == "bottom" else h - p.depth
                 geom = add_bar(geom, p.area / p.count, steel, x, y, n=24)
     section = ConcreteSection(geom)

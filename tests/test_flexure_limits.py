@@ -73,10 +73,10 @@ def test_min_steel_value():
 
 
 def test_required_steel_is_solved_not_scaled():
+    from beamsched.bars import parse_bars
     from beamsched.checks.context import SpanContext
     from beamsched.checks.flexure import required_steel
     from beamsched.model import BeamInput
-    from beamsched.bars import parse_bars
     inp = BeamInput("X", "rect", 300, 600, 30, 400, bottom_bars=parse_bars("4-25M"), d_bottom=540)
     ctx = SpanContext(inp, CODE)
     case = ctx.flexure("pos", "mid")

@@ -12,7 +12,7 @@ from typing import Literal
 
 from ..bars import BarArrangement
 from ..codes import DesignCode, FlangeWidth
-from ..model import BeamInput, CheckResult, CheckStatus, Location, TraceLine
+from ..model import BeamInput, CheckResult, Location, TraceLine
 from ..section import PlacedBars, Section, centroid_depth, place_bars
 from ..solve.flexure import FlexureSolution, SolverBar, solve_flexure
 

@@ -11,7 +11,6 @@ Where each is made:
 from __future__ import annotations
 
 import math
-
 from dataclasses import replace
 
 from ..model import CheckResult, CheckStatus, Location
