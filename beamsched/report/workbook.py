@@ -1,0 +1,595 @@
+"""The results workbook (xlsxwriter, values only).
+
+Sheets, in order:
+
+* ``Overview``: title block, counts, a chart of utilisation, the worst spans, the legend;
+* ``Spans``: one row per span in schedule order (the results table);
+* ``Working``: the calculation trace of every span, laid out to be redone by hand;
+* ``Input problems``: every row, column and value that could not be read, and why;
+* ``About``: policies, defaults, version and the caution.
+
+The workbook is written in xlsxwriter's constant-memory mode (row by row), so a schedule of
+tens of thousands of spans costs little memory; nothing here merges cells for that reason.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import math
+import os
+import textwrap
+from pathlib import Path
+
+from .. import CAUTION
+from ..model import BeamInput, BeamStatus, CheckResult
+from . import palette as P
+from .atomic import atomic_path
+from .policies import policies_for
+from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header
+
+SHEETS = ("Overview", "Spans", "Working", "Input problems", "About")
+MAX_ROWS = 1_048_576  # rows in one worksheet (Excel's limit)
+LINE_HEIGHT = 15.0  # points per wrapped line, 10-point text
+TITLE = "Concrete beam schedule check"
+# Characters of 10-point Arial that fit in one unit of column width (a unit is the width of one
+# digit of the default 11-point font); measured on rendered pages, rounded down.
+CHARS_PER_WIDTH = 1.3
+
+
+class Formats:
+    """xlsxwriter formats built once per look (swatch + number format + extras)."""
+
+    def __init__(self, wb):
+        self.wb = wb
+        self._cache: dict[tuple, object] = {}
+
+    def get(self, swatch: P.Swatch | None = None, num: str | None = None, **extra):
+        key = (swatch, num, tuple(sorted(extra.items())))
+        if key not in self._cache:
+            props: dict = {"font_name": "Arial", "font_size": 10, "valign": "top"}
+            if swatch is not None:
+                props.update(bg_color=swatch.fill, font_color=swatch.text, bold=swatch.bold,
+                             italic=swatch.italic, pattern=1)
+            if num is not None:
+                props["num_format"] = num
+            props.update(extra)
+            self._cache[key] = self.wb.add_format(props)
+        return self._cache[key]
+
+    def header(self):
+        return self.get(P.HEADER, text_wrap=True, border=1, border_color="#FFFFFF", valign="bottom")
+
+
+def sig_format(v: float) -> str:
+    """A number format showing about four significant figures (thousands separated)."""
+    if v == 0 or not math.isfinite(v):
+        return "0"
+    mag = math.floor(math.log10(abs(v)))
+    if mag < -5:
+        return "0.000E+00"
+    dec = max(0, 3 - mag)
+    return "#,##0" if dec == 0 else "#,##0." + "0" * dec
+
+
+def sig_text(v: float | None) -> str:
+    if v is None:
+        return "—"
+    if not math.isfinite(v):
+        return "∞"
+    fmt = sig_format(v)
+    if "E" in fmt:
+        return f"{v:.3e}"
+    dec = fmt.split(".")[1].count("0") if "." in fmt else 0
+    return f"{v:,.{dec}f}"
+
+
+def _hf_escape(text: str) -> str:
+    return text.replace("&", "&&")
+
+
+def _lines(text: str, width: int) -> int:
+    """Wrapped lines a text takes in a column `width` characters wide."""
+    if not text:
+        return 1
+    per_line = max(width * CHARS_PER_WIDTH - 2, 1)
+    return sum(max(1, math.ceil(len(part) / per_line)) for part in str(text).split("\n"))
+
+
+def section_text(inp: BeamInput | None) -> str:
+    if inp is None:
+        return ""
+    shape = {"rect": "Rect"}.get(inp.shape, inp.shape)
+    text = f"{shape} {inp.bw:g} × {inp.h:g}"
+    if inp.hf is not None:
+        text += f", hf {inp.hf:g}"
+    if inp.bf is not None:
+        text += f", bf {inp.bf:g} sched."
+    text += f"\nf'c {inp.fc:g}, fy {inp.fy:g}"
+    if inp.span is not None:
+        text += f"\nspan {inp.span / 1000:g} m, {inp.left_end}/{inp.right_end}"
+    return text
+
+
+def understood_text(row: SpanRow) -> str:
+    return "\n".join(f"{k}: {v}" for k, v in row.result.understood.items())
+
+
+class _Writer:
+    def __init__(self, wb, report: Report):
+        self.wb, self.r = wb, report
+        self.f = Formats(wb)
+
+    # -- shared bits -------------------------------------------------------------------
+    def status_cell(self, ws, row: int, col: int, status: BeamStatus, **extra) -> None:
+        st = P.SPAN_STATUS[status]
+        ws.write_string(row, col, st.word, self.f.get(st.swatch, align="center", **extra))
+
+    def util_cell(self, ws, row: int, col: int, u: float | None, made: bool = True) -> None:
+        if u is None:
+            if made:
+                ws.write_string(row, col, "—", self.f.get(P.NEUTRAL, align="center"))
+            else:
+                st = P.NOT_CHECKED_CELL
+                ws.write_string(row, col, st.word, self.f.get(st.swatch, align="center", text_wrap=True))
+            return
+        band = P.band_for(u)
+        if math.isfinite(u):
+            ws.write_number(row, col, u, self.f.get(band.swatch, "0.000", align="center"))
+        else:
+            ws.write_string(row, col, "∞", self.f.get(band.swatch, align="center"))
+
+    def page_setup(self, ws, repeat_row: int | None, last_col: int, title: str) -> None:
+        r = self.r
+        ws.set_landscape()
+        ws.set_paper(1)  # Letter; fit_to_pages scales to one page wide on any paper
+        ws.fit_to_pages(1, 0)
+        ws.set_margins(left=0.4, right=0.4, top=0.75, bottom=0.6)
+        if repeat_row is not None:
+            ws.repeat_rows(repeat_row)
+        project = " ".join(x for x in (r.project("project", "project name"),
+                                       r.project("number", "project number", "project no")) if x)
+        rev = r.project("revision", "rev")
+        head = f"&L{_hf_escape(project or 'Project not named')}&C{_hf_escape(title)}&R{_hf_escape('Rev ' + rev if rev else 'Revision not stated')}"
+        date = r.checked_at.strftime("%Y-%m-%d %H:%M")
+        source = os.path.basename(r.schedule.path) or "schedule"
+        foot = (f"&L{_hf_escape('Checked ' + date + ' by beamsched ' + r.version)}&CPage &P of &N"
+                f"&R{_hf_escape(source)}")
+        ws.set_header(head[:255], {"margin": 0.3})
+        ws.set_footer(foot[:255], {"margin": 0.3})
+
+    # -- Overview ----------------------------------------------------------------------
+    def overview(self) -> None:
+        r, f = self.r, self.f
+        ws = self.wb.add_worksheet("Overview")
+        widths = [28, 14, 14, 14, 24, 8, 90]
+        for i, w in enumerate(widths):
+            ws.set_column(i, i, w)
+        bold = f.get(bold=True)
+        plain = f.get()
+        section = f.get(bold=True, font_size=12, bottom=1)
+        row = 0
+        ws.set_row(row, 24)
+        ws.write_string(row, 0, TITLE + " — results", f.get(bold=True, font_size=16))
+        row += 1
+        for line in textwrap.wrap("CAUTION: " + CAUTION, 150):
+            ws.write_string(row, 0, line, f.get(bold=True, italic=True))
+            row += 1
+        row += 1
+        ws.write_string(row, 0, "Title block", section)
+        row += 1
+        s = r.schedule
+        block = [(label, r.project(*names) or "not stated") for label, names in TITLE_FIELDS]
+        block += [
+            ("Standard and edition", s.code),
+            ("Input file", os.path.basename(s.path) or "not stated"),
+            ("Input sheet", s.sheet or "—"),
+            ("Input file date", s.file_modified or "not known"),
+            ("Input file SHA-256", s.file_sha256 or "not known"),
+            ("Checked on", r.checked_at.strftime("%Y-%m-%d %H:%M %Z").strip()),
+            ("beamsched version", r.version),
+        ]
+        if s.units_assumed:
+            block.append(("Units assumed", "; ".join(s.units_assumed)))
+        for label, value in block:
+            ws.write_string(row, 0, label, bold)
+            fmt = f.get(P.ASSUMED) if label == "Units assumed" else plain
+            ws.write_string(row, 1, value, fmt)
+            row += 1
+        row += 1
+        ws.write_string(row, 0, "Spans", section)
+        row += 1
+        for col, head in enumerate(("Status", "Spans", "Meaning")):
+            ws.write_string(row, col, head, f.header())
+        row += 1
+        counts = r.counts
+        for status in (BeamStatus.PASS, BeamStatus.FAIL, BeamStatus.INCOMPLETE, BeamStatus.ERROR):
+            self.status_cell(ws, row, 0, status)
+            ws.write_number(row, 1, counts[status], f.get(num="0", align="center"))
+            ws.write_string(row, 2, P.SPAN_STATUS[status].meaning, plain)
+            row += 1
+        ws.write_string(row, 0, "Total rows", bold)
+        ws.write_number(row, 1, len(r.results), f.get(num="0", align="center", bold=True))
+        row += 1
+        if s.problems:
+            ws.write_string(row, 0, "File problems", bold)
+            ws.write_number(row, 1, len(s.problems), f.get(num="0", align="center"))
+            ws.write_string(row, 2, "problems with the file as a whole: see Input problems", plain)
+            row += 1
+        row += 1
+        ws.write_string(row, 0, "Largest utilisation of each span", section)
+        row += 1
+        ws.set_row(row, 30)
+        for col, head in enumerate(("Utilisation (demand / capacity)", "Spans", "Band")):
+            ws.write_string(row, col, head, f.header())
+        row += 1
+        first_bin = row
+        bins = P.histogram_bins()
+        colours = []
+        for label, lo, hi in bins:
+            n = sum(1 for x in r.rows if x.utilisation is not None and (lo < x.utilisation <= hi
+                                                                      or (hi == math.inf and x.utilisation > lo)))
+            band = P.band_for(hi if math.isfinite(hi) else math.inf)
+            colours.append(band.swatch.fill)
+            ws.write_string(row, 0, label, f.get(band.swatch, align="center"))
+            ws.write_number(row, 1, n, f.get(num="0", align="center"))
+            ws.write_string(row, 2, band.name, plain)
+            row += 1
+        none = sum(1 for x in r.rows if x.utilisation is None)
+        ws.write_string(row, 0, "no check made", f.get(P.NOT_CHECKED_CELL.swatch, align="center"))
+        ws.write_number(row, 1, none, f.get(num="0", align="center"))
+        ws.write_string(row, 2, "not read, or nothing could be checked", plain)
+        row += 1
+        chart = self.wb.add_chart({"type": "column"})
+        chart.add_series({
+            "name": "Spans",
+            "categories": ["Overview", first_bin, 0, first_bin + len(bins) - 1, 0],
+            "values": ["Overview", first_bin, 1, first_bin + len(bins) - 1, 1],
+            "points": [{"fill": {"color": c}, "border": {"color": "#000000"}} for c in colours],
+            "data_labels": {"value": True},
+            "gap": 40,
+        })
+        chart.set_title({"name": "Spans by largest utilisation", "name_font": {"size": 11, "bold": True}})
+        chart.set_x_axis({"name": "largest utilisation of the span (demand / capacity)"})
+        chart.set_y_axis({"name": "spans", "major_gridlines": {"visible": True, "line": {"color": "#D0D0D0"}}})
+        chart.set_legend({"none": True})
+        chart.set_size({"width": 560, "height": 300})
+        ws.insert_chart(first_bin - 2, 4, chart, {"x_offset": 10, "y_offset": 0})
+        row = max(row, first_bin - 2 + 17) + 1
+        ws.write_string(row, 0, "Worst spans (largest utilisation first)", section)
+        row += 1
+        heads = ("Span", "Schedule row", "Max utilisation", "Status", "Governing check", "At", "Note")
+        ws.set_row(row, 30)
+        for col, head in enumerate(heads):
+            ws.write_string(row, col, head, f.header())
+        row += 1
+        worst = r.worst(10)
+        if not worst:
+            ws.write_string(row, 0, "No span has a utilisation: nothing could be checked.", plain)
+            row += 1
+        wrap = f.get(text_wrap=True)
+        for x in worst:
+            note = x.first_note
+            ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), 6))
+            ws.write_string(row, 0, x.label, bold)
+            if x.result.row is not None:
+                ws.write_number(row, 1, x.result.row, f.get(num="0", align="center"))
+            self.util_cell(ws, row, 2, x.utilisation)
+            self.status_cell(ws, row, 3, x.status)
+            g = x.governing
+            ws.write_string(row, 4, g.label if g else "—", plain)
+            ws.write_string(row, 5, LOCATION_WORDS[g.location] if g else "", plain)
+            ws.write_string(row, 6, note, wrap)
+            row += 1
+        row += 1
+        ws.write_string(row, 0, "Legend", section)
+        row += 1
+        ws.write_string(row, 0, "Span status (Status column)", bold)
+        row += 1
+        for status in BeamStatus:
+            self.status_cell(ws, row, 0, status)
+            ws.write_string(row, 1, P.SPAN_STATUS[status].meaning, plain)
+            row += 1
+        ws.write_string(row, 0, "Utilisation cells", bold)
+        row += 1
+        samples = {"within": 0.75, "near limit": 0.95, "over": 1.12}
+        for band in P.BANDS:
+            ws.write_number(row, 0, samples.get(band.name, 0.5), f.get(band.swatch, "0.000", align="center"))
+            ws.write_string(row, 1, f"{band.name}: {band.meaning}", plain)
+            row += 1
+        st = P.NOT_CHECKED_CELL
+        ws.write_string(row, 0, st.word, f.get(st.swatch, align="center"))
+        ws.write_string(row, 1, "the check applies to the span but could not be made: the note says why", plain)
+        row += 1
+        ws.write_string(row, 0, "—", f.get(P.NEUTRAL, align="center"))
+        ws.write_string(row, 1, "the check does not apply to this span (for example hogging at a simple end)", plain)
+        row += 1
+        ws.write_string(row, 0, "default applied", f.get(P.ASSUMED, align="center"))
+        ws.write_string(row, 1, "a value the schedule did not give, taken from a default (listed per span)", plain)
+        row += 1
+        ws.write_string(row, 0, "The words and numbers carry the meaning; the colours only repeat it, so a "
+                                "greyscale print reads the same.", f.get(italic=True))
+        self.page_setup(ws, None, len(widths) - 1, "Overview")
+        ws.fit_to_pages(1, 1)
+        ws.set_portrait()
+
+    # -- Spans -------------------------------------------------------------------------
+    def spans(self) -> None:
+        r, f = self.r, self.f
+        ws = self.wb.add_worksheet("Spans")
+        cols: list[tuple[str, float]] = [
+            ("Row", 6), ("Mark", 10), ("Span\nno.", 6), ("Status", 12), ("Max\nutilisation", 11),
+            ("Governing check", 14), ("Governs\nat", 8),
+        ]
+        n_fixed = len(cols)
+        cols += [(f"{c.label}\nutilisation", 11) for c in r.columns]
+        cols += [(value_header(k).replace(" (", "\n("), 11) for k in r.value_keys]
+        cols += [("Section\n(mm, MPa)", 26), ("Understood from the schedule", 52),
+                 ("Defaults applied", 30), ("Checks not made", 24), ("Notes (clause named)", 80)]
+        for i, (_, w) in enumerate(cols):
+            ws.set_column(i, i, w)
+        ws.set_row(0, LINE_HEIGHT * 3.2)
+        for i, (head, _) in enumerate(cols):
+            ws.write_string(0, i, head, f.header())
+        wrap = f.get(text_wrap=True)
+        plain = f.get()
+        for n, x in enumerate(r.rows, start=1):
+            res = x.result
+            i_sec = n_fixed + len(r.columns) + len(r.value_keys)
+            texts = {i_sec: section_text(res.input), i_sec + 1: understood_text(x),
+                     i_sec + 2: "\n".join(res.assumed) or "none", i_sec + 3: "\n".join(x.not_made),
+                     i_sec + 4: x.note_text}
+            lines = max(_lines(t, int(cols[i][1])) for i, t in texts.items())
+            ws.set_row(n, LINE_HEIGHT * min(max(lines, 1), 27))
+            if res.row is not None:
+                ws.write_number(n, 0, res.row, f.get(num="0", align="center"))
+            ws.write_string(n, 1, res.mark, f.get(bold=True))
+            if res.span_no is not None:
+                ws.write_number(n, 2, res.span_no, f.get(num="0", align="center"))
+            self.status_cell(ws, n, 3, res.status)
+            self.util_cell(ws, n, 4, x.utilisation, made=res.status is BeamStatus.ERROR or bool(res.checks))
+            g = x.governing
+            ws.write_string(n, 5, g.label if g else "—", plain)
+            ws.write_string(n, 6, LOCATION_WORDS[g.location] if g else "", f.get(align="center"))
+            for j, c in enumerate(r.columns):
+                has = any(ch.id == c.id for ch in res.checks)
+                self.util_cell(ws, n, n_fixed + j, x.by_check[c.id], made=not has or x.made[c.id])
+            for j, k in enumerate(r.value_keys):
+                v = res.values.get(k)
+                col = n_fixed + len(r.columns) + j
+                if isinstance(v, (int, float)) and math.isfinite(v):
+                    ws.write_number(n, col, v, f.get(num="#,##0.0"))
+                elif v is not None:
+                    ws.write_string(n, col, str(v), plain)
+            ws.write_string(n, i_sec, texts[i_sec], wrap)
+            ws.write_string(n, i_sec + 1, texts[i_sec + 1], wrap)
+            ws.write_string(n, i_sec + 2, texts[i_sec + 2], f.get(P.ASSUMED, text_wrap=True) if res.assumed else wrap)
+            ws.write_string(n, i_sec + 3, texts[i_sec + 3], wrap)
+            ws.write_string(n, i_sec + 4, texts[i_sec + 4], wrap)
+        last = len(cols) - 1
+        ws.freeze_panes(1, 2)
+        ws.autofilter(0, 0, max(len(r.rows), 1), last)
+        self.page_setup(ws, 0, last, "Results by span")
+        ws.set_paper(3)  # Tabloid (11 × 17 in), the usual office size for schedules (common practice)
+        ws.fit_to_pages(1, 0)
+
+    # -- Working -----------------------------------------------------------------------
+    def working(self) -> None:
+        r, f = self.r, self.f
+        ws = self.wb.add_worksheet("Working")
+        cols = [("Check", 16), ("At", 6), ("Symbol", 22), ("Value", 12), ("Unit", 7), ("Clause", 14),
+                ("Working (what the value is, how it was found)", 90)]
+        for i, (_, w) in enumerate(cols):
+            ws.set_column(i, i, w)
+        for i, (head, _) in enumerate(cols):
+            ws.write_string(0, i, head, f.header())
+        ws.freeze_panes(1, 0)
+        wrap = f.get(text_wrap=True)
+        plain = f.get()
+        labels = {c.id: c.label for c in r.columns}
+        row = 1
+        for x in r.rows:
+            res = x.result
+            if row + 3 + len(res.trace) + len(res.checks) + len(res.problems) >= MAX_ROWS:
+                ws.write_string(row, 0, f"The working of {len(r.rows) - x.index} more spans, from {x.label} on, "
+                                        "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
+                                        "batches to see their working.", f.get(bold=True))
+                break
+            ws.set_row(row, 18)
+            st = P.SPAN_STATUS[res.status]
+            ws.write_string(row, 0, x.label, f.get(st.swatch, bold=True, font_size=11))
+            ws.write_string(row, 1, "", f.get(st.swatch))
+            ws.write_string(row, 2, st.word, f.get(st.swatch, bold=True, font_size=11))
+            self.util_cell(ws, row, 3, x.utilisation)
+            g = x.governing
+            info = f"schedule row {res.row if res.row is not None else '—'}"
+            if g is not None:
+                info += f"; governing: {check_display(g)}, utilisation {P.format_utilisation(g.utilisation)}"
+            ws.write_string(row, 6, info, f.get(bold=True))
+            row += 1
+            if res.status is BeamStatus.ERROR or res.problems:
+                for p in res.problems:
+                    ws.write_string(row, 0, "Input", plain)
+                    ws.write_string(row, 2, p.column or "", plain)
+                    ws.write_string(row, 3, "" if p.value is None else str(p.value), plain)
+                    ws.write_string(row, 6, ("Warning: " if p.severity == "warning" else "Not read: ") + p.message, wrap)
+                    row += 1
+            groups: dict[tuple, list] = {}
+            for t in res.trace:
+                groups.setdefault((t.check, t.location), []).append(t)
+            results_by_key: dict[tuple, list[CheckResult]] = {}
+            for c in res.checks:
+                results_by_key.setdefault((c.id, c.location), []).append(c)
+            done: set[tuple] = set()
+            for key, lines in groups.items():
+                for t in lines:
+                    name = labels.get(t.check, t.check.replace("_", " ").capitalize())
+                    ws.write_string(row, 0, name, plain)
+                    ws.write_string(row, 1, LOCATION_WORDS.get(t.location, str(t.location)), plain)
+                    ws.write_string(row, 2, t.symbol, plain)
+                    if isinstance(t.value, (int, float)) and not isinstance(t.value, bool):
+                        if math.isfinite(t.value):
+                            ws.write_number(row, 3, t.value, f.get(num=sig_format(t.value)))
+                        else:
+                            ws.write_string(row, 3, "∞" if t.value > 0 else "−∞", plain)
+                    elif t.value is not None:
+                        ws.write_string(row, 3, str(t.value), plain)
+                    ws.write_string(row, 4, t.unit, f.get(indent=1))
+                    ws.write_string(row, 5, t.clause, plain)
+                    ws.write_string(row, 6, t.description, wrap)
+                    row += 1
+                for c in results_by_key.get(key, []):
+                    row = self._result_row(ws, row, c)
+                done.add(key)
+            for key, checks in results_by_key.items():
+                if key not in done:
+                    for c in checks:
+                        row = self._result_row(ws, row, c)
+            row += 1
+        self.page_setup(ws, 0, len(cols) - 1, "Calculation working")
+        ws.set_portrait()
+
+    def _result_row(self, ws, row: int, c: CheckResult) -> int:
+        f = self.f
+        st = P.CHECK_STATUS[c.status]
+        text = f"Result: demand {sig_text(c.demand)} against capacity {sig_text(c.capacity)} {c.unit}".rstrip()
+        if c.demand is None and c.capacity is None:
+            text = "Result"
+        if c.message:
+            text += ". " + c.message
+        lines = _lines(text, 90)
+        ws.set_row(row, LINE_HEIGHT * min(lines, 10))
+        top = f.get(bold=True, top=1)
+        ws.write_string(row, 0, c.label, top)
+        ws.write_string(row, 1, LOCATION_WORDS[c.location], top)
+        ws.write_string(row, 2, "utilisation", top)
+        if c.utilisation is None:
+            ws.write_string(row, 3, "—", f.get(align="center", top=1))
+        else:
+            band = P.band_for(c.utilisation)
+            if math.isfinite(c.utilisation):
+                ws.write_number(row, 3, c.utilisation, f.get(band.swatch, "0.000", top=1))
+            else:
+                ws.write_string(row, 3, "∞", f.get(band.swatch, top=1))
+        ws.write_string(row, 4, st.word, f.get(st.swatch, align="center", top=1))
+        ws.write_string(row, 5, c.clause, top)
+        ws.write_string(row, 6, text, f.get(bold=True, text_wrap=True, top=1))
+        return row + 1
+
+    # -- Input problems ----------------------------------------------------------------
+    def problems(self) -> None:
+        r, f = self.r, self.f
+        ws = self.wb.add_worksheet("Input problems")
+        cols = [("Row", 7), ("Span", 16), ("Column", 20), ("Value", 20), ("Reason and what was expected", 90),
+                ("Severity", 10)]
+        for i, (_, w) in enumerate(cols):
+            ws.set_column(i, i, w)
+        for i, (head, _) in enumerate(cols):
+            ws.write_string(0, i, head, f.header())
+        wrap = f.get(text_wrap=True)
+        items = r.all_problems()
+        row = 1
+        if not items:
+            ws.write_string(row, 4, "No problems: every row was read.", f.get(italic=True))
+            row += 1
+        for rownum, label, p in items:
+            ws.set_row(row, LINE_HEIGHT * min(_lines(p.message, 90), 8))
+            if rownum is not None:
+                ws.write_number(row, 0, rownum, f.get(num="0", align="center"))
+            else:
+                ws.write_string(row, 0, "file", f.get(align="center"))
+            ws.write_string(row, 1, label, wrap)
+            ws.write_string(row, 2, p.column or "", wrap)
+            ws.write_string(row, 3, "" if p.value is None else str(p.value), wrap)
+            ws.write_string(row, 4, p.message, wrap)
+            sw = P.SPAN_STATUS[BeamStatus.ERROR].swatch if p.severity == "error" else P.ASSUMED
+            ws.write_string(row, 5, p.severity, f.get(sw, align="center"))
+            row += 1
+        ws.freeze_panes(1, 0)
+        ws.autofilter(0, 0, max(row - 1, 1), len(cols) - 1)
+        self.page_setup(ws, 0, len(cols) - 1, "Input problems")
+
+    # -- About -------------------------------------------------------------------------
+    def about(self) -> None:
+        r, f = self.r, self.f
+        ws = self.wb.add_worksheet("About")
+        ws.set_column(0, 0, 30)
+        ws.set_column(1, 1, 110)
+        bold = f.get(bold=True, text_wrap=True)
+        wrap = f.get(text_wrap=True)
+        row = 0
+        ws.set_row(row, 22)
+        ws.write_string(row, 0, "About these results", f.get(bold=True, font_size=14))
+        row += 2
+
+        def put(topic: str, text: str, fmt=None) -> None:
+            nonlocal row
+            ws.set_row(row, LINE_HEIGHT * min(_lines(text, 110), 20))
+            ws.write_string(row, 0, topic, bold)
+            ws.write_string(row, 1, text, fmt or wrap)
+            row += 1
+
+        put("Caution", CAUTION, f.get(bold=True, text_wrap=True))
+        put("beamsched version", r.version)
+        put("Design standard", r.schedule.code)
+        row += 1
+        for status in BeamStatus:
+            st = P.SPAN_STATUS[status]
+            put(f"Status {st.word}", st.meaning)
+        row += 1
+        for i, text in enumerate(policies_for([c.id for c in r.columns])):
+            put("Policies" if i == 0 else "", text)
+        row += 1
+        for i, c in enumerate(r.columns):
+            put("Checks made in this run" if i == 0 else "", f"{c.label} ({c.id}): CSA clause {c.clause}")
+        if not r.columns:
+            put("Checks made in this run", "none")
+        row += 1
+        defaults = r.schedule.defaults
+        if defaults:
+            for i, (k, v) in enumerate(defaults.items()):
+                put("Defaults in force" if i == 0 else "", f"{k}: {v}")
+        else:
+            put("Defaults in force", "none declared in the schedule (no Parameters sheet, or it sets none)")
+        assumed = r.assumed_counts
+        if assumed:
+            for i, (text, n) in enumerate(assumed.items()):
+                put("Defaults applied to spans" if i == 0 else "", f"{text} ({n} span{'s' if n != 1 else ''})",
+                    f.get(P.ASSUMED, text_wrap=True))
+        else:
+            put("Defaults applied to spans", "none: every span gave every value it needed")
+        if r.schedule.units_assumed:
+            put("Units assumed", "; ".join(r.schedule.units_assumed), f.get(P.ASSUMED, text_wrap=True))
+        if r.schedule.columns:
+            put("Columns read", "; ".join(f"{k} ← “{v}”" for k, v in r.schedule.columns.items()))
+        s = r.schedule
+        put("Input", f"{os.path.basename(s.path) or 'not stated'}, sheet {s.sheet or '—'}, header row "
+                     f"{s.header_row if s.header_row is not None else '—'}; SHA-256 {s.file_sha256 or 'not known'}; "
+                     f"modified {s.file_modified or 'not known'}")
+        put("Checked on", r.checked_at.strftime("%Y-%m-%d %H:%M %Z").strip())
+        self.page_setup(ws, None, 1, "About")
+        ws.set_portrait()
+
+
+def write_results(report: Report, path: str | os.PathLike, protected: tuple | list = ()) -> Path:
+    """Write the results workbook to ``path`` (whole or not at all)."""
+    import xlsxwriter
+
+    with atomic_path(path, protected) as tmp:
+        wb = xlsxwriter.Workbook(str(tmp), {"constant_memory": True, "strings_to_numbers": False,
+                                            "strings_to_formulas": False, "strings_to_urls": False})
+        try:
+            wb.set_properties({"title": TITLE, "subject": report.schedule.code, "author": "beamsched",
+                               "comments": CAUTION})
+            w = _Writer(wb, report)
+            w.overview()
+            w.spans()
+            w.working()
+            w.problems()
+            w.about()
+        except BaseException:
+            # Release xlsxwriter's own temporary files; the partial file is then deleted.
+            with contextlib.suppress(Exception):
+                wb.close()
+            raise
+        wb.close()
+    return Path(path)
