@@ -61,7 +61,7 @@ PARAMS: tuple[Param, ...] = (
     Param("agg", "Max aggregate", "length", ("max aggregate", "maximum aggregate", "agg", "aggregate",
                                             "max aggregate size", "maximum aggregate size"), 20, "mm",
           "Maximum aggregate size (bar spacing, shear crack spacing)."),
-    Param("exposure", "Exposure", "exposure", ("exposure",), "interior",
+    Param("exposure", "Exposure", "exposure", ("exposure",), "exterior",
           help="interior or exterior; without it beamsched takes exterior (the stricter crack-control limit)."),
     Param("density", "Concrete density", "density", ("concrete density", "density", "concrete type"), "normal",
           help="normal, semi-low-density or low-density: λ = 1.0, 0.85, 0.75 (cl. 8.6.5)."),
@@ -174,7 +174,7 @@ def read_parameters(grid: Grid | None) -> Defaults:
                     problem(number, label, s, "expected normal, semi-low-density or low-density (cl. 8.6.5)")
                 else:
                     kind, lam = DENSITIES[density_key(s)]
-                    d.values["density"], d.words["density"] = kind, f"{kind} (λ = {lam:g}, cl. 8.6.5)"
+                    d.values["density"], d.words["density"] = kind, f"{kind} (λ = {lam:.2f}, cl. 8.6.5)"
             elif p.kind == "bool":
                 v = cv.yes_no(value_cell)
                 d.values[p.key], d.words[p.key] = v, "yes" if v else "no"
