@@ -4,8 +4,8 @@ check is adding a module here, with no change to any writer."""
 
 from __future__ import annotations
 
-from . import flexure
+from . import detailing, flexure, scope, serviceability, shear, torsion
 
-CHECK_MODULES = [flexure]
+CHECK_MODULES = [flexure, shear, torsion, detailing, serviceability, scope]
 
 __all__ = ["CHECK_MODULES"]

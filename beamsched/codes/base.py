@@ -91,3 +91,168 @@ class DesignCode(ABC):
         """Minimum clear distance between parallel bars (mm)."""
 
     clauses: dict[str, str]  # clause labels by topic
+
+
+# ==============================================================================================
+# Shear, torsion, detailing, serviceability and scope provisions (issue 5).
+#
+# Kept apart from :class:`DesignCode` so that a code module can be added in stages: the checks
+# that need these provisions ask ``isinstance(code, DetailingProvisions)`` and report
+# ``not_checked`` when the code in force does not provide them. The generic arithmetic
+# (Vc = φc λ β √f'c bw dv, Vs, εx, bar spacing geometry) sits in ``beamsched.solve.shear``;
+# only the standard's numbers, rules and clause labels sit here.
+# ==============================================================================================
+
+
+@dataclass(frozen=True)
+class ShearAngles:
+    """β and θ for one section, and why (the rule and clause that set them)."""
+
+    beta: float
+    theta: float | None  # degrees; None where no θ is needed (no stirrups counted)
+    method: str  # "simplified", "general" or "special member"
+    basis: str  # words: the rule that set β
+    clause: str
+    sze: float | None = None  # equivalent crack spacing used (mm), where one was used
+    eps_x: float | None = None  # longitudinal strain at mid-depth (general method)
+
+
+class DetailingProvisions(ABC):
+    """Provisions beyond flexure. Every length in mm, stress MPa, force N, moment N·mm."""
+
+    # -- shear (sectional method) --------------------------------------------------------------
+    @abstractmethod
+    def shear_depth(self, d: float, h: float) -> float:
+        """Effective shear depth dv."""
+
+    @abstractmethod
+    def shear_root_fc(self, fc: float) -> float:
+        """√f'c as used for Vc (with any cap)."""
+
+    @abstractmethod
+    def shear_simplified_applies(self, fc: float, fy: float, axial_tension: bool) -> tuple[bool, str]:
+        """Whether the simplified method may be used, and why (words)."""
+
+    @abstractmethod
+    def shear_special_member(self, shape: str, h: float, hf: float | None, bw: float) -> str | None:
+        """Words naming the special member type that allows the fixed β, or None."""
+
+    @abstractmethod
+    def shear_special(self) -> ShearAngles:
+        """β (and θ) for the special member types, without counted stirrups."""
+
+    @abstractmethod
+    def shear_simplified(self, dv: float, agg: float, min_stirrups: bool) -> ShearAngles:
+        """β and θ by the simplified method."""
+
+    @abstractmethod
+    def shear_general_moment(self, mf: float, vf: float, dv: float) -> float:
+        """The moment to use in εx (the code's lower bound applied)."""
+
+    @abstractmethod
+    def shear_general(self, eps_x: float, dv: float, agg: float, fc: float, min_stirrups: bool) -> ShearAngles:
+        """β and θ by the general method, εx as computed (the code applies its own bounds)."""
+
+    @abstractmethod
+    def shear_crushing_factor(self) -> float:
+        """k in Vr,max = k φc f'c bw dv."""
+
+    @abstractmethod
+    def min_shear_reinforcement(self, fc: float, bw: float, s: float, fyt: float) -> float:
+        """Av,min (mm²) for stirrups at spacing s."""
+
+    @abstractmethod
+    def min_stirrups_reasons(self, vf: float | None, vc: float, h: float) -> list[str]:
+        """Why minimum stirrups are required at a section (empty: not required by these tests)."""
+
+    @abstractmethod
+    def high_shear_limit(self, lam: float, phi_c: float, fc: float, bw: float, dv: float) -> float:
+        """The Vf above which the tighter stirrup spacing applies (N)."""
+
+    @abstractmethod
+    def stirrup_spacing_limit(self, dv: float, high_shear: bool) -> tuple[float, str]:
+        """Largest stirrup spacing (mm) and the words of the governing limit."""
+
+    @abstractmethod
+    def long_steel_vs_cap(self, vs: float, vf: float) -> float:
+        """The Vs that may be used in the longitudinal-steel equation."""
+
+    # -- torsion -------------------------------------------------------------------------------
+    @abstractmethod
+    def torsion_cracking(self, acp: float, pc: float, lam: float, phi_c: float, fc: float) -> float:
+        """Tcr (N·mm) for a gross section of area Acp and perimeter pc."""
+
+    @abstractmethod
+    def torsion_threshold_fraction(self) -> float:
+        """Torsion may be neglected where Tf ≤ this × Tcr."""
+
+    @abstractmethod
+    def torsion_flange_overhang(self, h: float, hf: float) -> tuple[float, str]:
+        """Largest flange overhang on each side counted in Acp and pc (mm), and its words."""
+
+    # -- detailing -----------------------------------------------------------------------------
+    @abstractmethod
+    def stirrup_bend_diameter(self, ds: float) -> tuple[float, str]:
+        """Inside bend diameter of a stirrup of diameter ds (mm) and the rule's words."""
+
+    # -- crack control and skin reinforcement --------------------------------------------------
+    @abstractmethod
+    def crack_control_applies(self, fy: float) -> bool: ...
+
+    @abstractmethod
+    def crack_fs_default(self, fy: float) -> float:
+        """Service steel stress fs taken without a service moment (MPa)."""
+
+    @abstractmethod
+    def crack_cover_cap(self) -> float:
+        """Largest clear cover used for dc and A (mm)."""
+
+    @abstractmethod
+    def crack_z_limit(self, exposure: str) -> float:
+        """Limit on z (N/mm) for the exposure."""
+
+    @abstractmethod
+    def crack_epoxy_factor(self) -> float:
+        """Factor on z for epoxy-coated bars."""
+
+    @abstractmethod
+    def concrete_modulus(self, fc: float, density_kg_m3: float) -> float:
+        """Ec (MPa)."""
+
+    @abstractmethod
+    def skin_required(self, h: float) -> bool: ...
+
+    @abstractmethod
+    def skin_ratio(self, exposure: str) -> float:
+        """ρsk: skin reinforcement area over the side strip area Acs."""
+
+    @abstractmethod
+    def skin_max_spacing(self) -> float: ...
+
+    # -- minimum depth (deflection) ------------------------------------------------------------
+    @abstractmethod
+    def min_depth_divisor(self, left_end: str, right_end: str) -> tuple[float, str]:
+        """ℓn over this is the minimum h; and the words of the end condition."""
+
+    @abstractmethod
+    def min_depth_fy_factor(self, fy: float) -> float: ...
+
+    @abstractmethod
+    def min_depth_density_factor(self, density_kg_m3: float | None) -> float: ...
+
+    # -- scope ---------------------------------------------------------------------------------
+    @abstractmethod
+    def deep_member_span_ratio(self, continuous: bool) -> float:
+        """Clear span over h below which the member is a deep flexural member."""
+
+    @abstractmethod
+    def deep_shear_span_ratio(self) -> float:
+        """Shear span over d below which the span is a deep shear span."""
+
+    @abstractmethod
+    def beam_column_axial_limit(self, fc: float, ag: float) -> float:
+        """Factored axial compression (N) above which the member is a beam-column."""
+
+    @abstractmethod
+    def density_kg_m3(self, density: str, lam: float) -> float | None:
+        """Density to use for the concrete class (the class's lowest, where only the class is known)."""

@@ -9,6 +9,7 @@ from __future__ import annotations
 import math
 
 from .base import DesignCode, FlangeWidth, MaterialError, StressBlock
+from .csa_a23_3_19_detailing import DETAILING_CLAUSES, CSAA23319Detailing
 
 CLAUSES = {
     "phi_c": "8.4.2",
@@ -29,9 +30,10 @@ CLAUSES = {
     "bar_spacing": "A23.1 6.6.5.2 (Annex A)",
     "flexure": "10.1",
 }
+CLAUSES.update(DETAILING_CLAUSES)  # shear, detailing, serviceability and scope (issue 5)
 
 
-class CSAA23319(DesignCode):
+class CSAA23319(DesignCode, CSAA23319Detailing):
     id = "CSA A23.3-19"
     name = "CSA A23.3-19 Design of concrete structures"
     Es = 200_000.0  # cl. 8.5.4.1
