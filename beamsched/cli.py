@@ -355,7 +355,7 @@ def print_summary(report, outcome: Outcome, out: TextIO) -> None:
     errors = [(r, lbl, p) for r, lbl, p in problems if p.severity == "error"]
     if errors:
         w(f"\n{len(errors)} input problem{'s' if len(errors) != 1 else ''} (all are on the 'Input problems' sheet):\n")
-        for r, lbl, p in errors[:10]:
+        for r, _lbl, p in errors[:10]:
             where = f"row {r}" if r is not None else "file"
             msg = p.message
             if msg.lower().startswith(where + ","):
@@ -380,12 +380,14 @@ def _cmd_check(args) -> int:
 
 
 def _cmd_demo(args) -> int:
-    from .schedule.samples import sample_path
-
-    sample = Path(sample_path())
     folder = Path(args.output_dir) if args.output_dir else Path.cwd()
     if not folder.is_dir():
         raise UsageError(f"the output directory {folder} does not exist")
+    try:
+        from .schedule.samples import sample_path
+    except ImportError as exc:
+        raise UsageError(f"the bundled sample schedule is not installed ({exc})") from exc
+    sample = Path(sample_path())
     output = folder / f"{sample.stem}{RESULTS_SUFFIX}.xlsx"
     print(f"Checking the bundled sample schedule {sample}")
     print("(an invented floor; some spans fail and some rows are unreadable on purpose)\n")

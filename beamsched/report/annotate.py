@@ -13,6 +13,7 @@ The input is only ever read; the copy goes to a new name through a temporary fil
 
 from __future__ import annotations
 
+import io
 import math
 import os
 import re
@@ -195,10 +196,15 @@ def write_annotated(report: Report, source: str | os.PathLike, target: str | os.
         _notice(wb, report, source, sheet, outcome.first_result_column, [], load_warnings, styles)
         wb.save(tmp)
         lost = _lost(before, count_parts(tmp))
-        if lost:  # say so on the first sheet, and save again
-            del wb[wb.sheetnames[0]]
-            _notice(wb, report, source, sheet, outcome.first_result_column, lost, load_warnings, styles)
-            wb.save(tmp)
+        if lost:
+            # Say so on the first sheet. The copy is reopened (not saved twice: openpyxl reads the
+            # images it carried lazily from the original and cannot write them a second time).
+            again = load_workbook(tmp, keep_vba=(ext == ".xlsm"), data_only=False, keep_links=True)
+            del again[again.sheetnames[0]]
+            _notice(again, report, source, sheet, outcome.first_result_column, lost, load_warnings, styles)
+            buf = io.BytesIO()
+            again.save(buf)
+            tmp.write_bytes(buf.getvalue())
     outcome.lost = lost
     return outcome
 
