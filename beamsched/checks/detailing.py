@@ -129,6 +129,11 @@ def _flange_tension(ctx: SpanContext, loc: Location) -> None:
 def _skin(ctx: SpanContext, code: DetailingProvisions) -> None:
     inp, t = ctx.inp, ctx.add_trace
     clause = ctx.code.clauses["skin"]
+    if isinstance(inp.skin_bars, str):  # the Python API passes other fields through unparsed
+        from dataclasses import replace
+
+        from ..bars import parse_bars
+        ctx.inp = inp = replace(inp, skin_bars=parse_bars(inp.skin_bars))
     if not code.skin_required(inp.h):
         return
     rho = code.skin_ratio(inp.exposure)
@@ -153,7 +158,7 @@ def _skin(ctx: SpanContext, code: DetailingProvisions) -> None:
             "skin_steel", "Skin steel", None, clause, CheckStatus.NOT_CHECKED,
             f"h = {inp.h:g} mm > 750 mm: skin reinforcement is required on both side faces over {zone_words} (cl. "
             f"{clause}): about {need:.0f} mm² on each face (ρsk = {rho:g}), at most {smax:g} mm apart (at least "
-            f"{n_need} bars a face). None is scheduled, so it was not checked: schedule the skin bars.",
+            f"{n_need} bar{'s' if n_need > 1 else ''} a face). None is scheduled, so it was not checked: schedule the skin bars.",
             demand=need, unit="mm²"))
         return
     have = inp.skin_bars.area
@@ -170,7 +175,8 @@ def _skin(ctx: SpanContext, code: DetailingProvisions) -> None:
     if problems:
         ctx.add(CheckResult("skin_steel", "Skin steel", None, clause, CheckStatus.FAIL,
                             "Skin reinforcement (h > 750 mm, cl. " + clause + "): " + "; ".join(problems)
-                            + f": use at least {n_need} bars a face and {need:.0f} mm².",
+                            + f": use at least {max(n_need, math.ceil(need / inp.skin_bars.largest_bar.area))}-"
+                            f"{inp.skin_bars.largest_bar.size} a face ({need:.0f} mm², at most {smax:g} mm apart).",
                             demand=need, capacity=have, unit="mm²", utilisation=u))
     else:
         ctx.add(CheckResult("skin_steel", "Skin steel", None, clause, CheckStatus.PASS,

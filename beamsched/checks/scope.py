@@ -3,10 +3,11 @@
 
 * ``scope_deep``: a deep flexural member by cl. 10.7.1 (h/ℓn > 2/5 continuous, > 4/5 simple:
   from memory; a free end counts as continuous, the stricter limit), or a deep shear span
-  (shear span / d < 2, designed by strut-and-tie, cl. 11.4). The shear span at each end is
-  estimated as a = (Mf+ + Mf- at that end) / Vf at that end: exact for one concentrated load
-  (a transfer girder carrying a column), and half the distance to zero shear under uniform
-  load, so it errs towards flagging. d is that of the midspan bottom bars.
+  (shear span / d < 2, designed by strut-and-tie, cl. 11.4). The schedule does not say where
+  the loads are, so the shear span at each end is estimated (see :func:`shear_span`): exact
+  for one concentrated load (a transfer girder carrying a column) and for uniform load on a
+  simple span; a heavy load near a support among other loads may escape it, so the engineer
+  must still identify transfer girders. d is that of the midspan bottom bars.
 * ``scope_seismic``: SFRS = yes is out of scope (Clause 21 is not covered); SFRS not stated
   gives a reminder.
 * ``scope_axial``: made only when Pf is scheduled (a blank Pf is taken as a beam without axial
@@ -23,6 +24,26 @@ from __future__ import annotations
 from ..codes.base import DetailingProvisions
 from ..model import CheckResult, CheckStatus
 from .context import N_PER_KN, FlexureCase, SpanContext
+
+
+def shear_span(mf_pos: float, mf_neg_end: float, vf_end: float, vf_other: float | None,
+               ln: float | None) -> tuple[float, str]:
+    """Estimate the shear span at one end (mm), and how.
+
+    a1 = (Mf+ + Mf- at the end) / Vf at the end: the moment at a load is Vf times its distance
+    from the support when no other load lies between, so a1 is exact for one concentrated load
+    and never more than the distance to zero shear. a2 = ℓn · Vf,other / (Vf,end + Vf,other):
+    by statics of a simple span, the distance to the resultant of the loads (ℓn/2 under uniform
+    load, exactly a under one concentrated load). The larger of the two is used where both are
+    known: exact for one concentrated load and for uniform load on a simple span.
+    """
+    a1 = (mf_pos + mf_neg_end) / vf_end
+    if ln is None or vf_other is None or vf_end + vf_other <= 0:
+        return a1, "(Mf+ + Mf-) / Vf, exact for one concentrated load"
+    a2 = ln * vf_other / (vf_end + vf_other)
+    if a2 > a1:
+        return a2, "ℓn · Vf,other / (Vf,L + Vf,R): distance to the resultant of the loads"
+    return a1, "(Mf+ + Mf-) / Vf at that end: the moment over the shear"
 
 
 def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
@@ -49,17 +70,17 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
         ratio_min = code.deep_shear_span_ratio()
         for end in ("left", "right"):
             vf = inp.Vf_left if end == "left" else inp.Vf_right
+            other = inp.Vf_right if end == "left" else inp.Vf_left
             mneg = (inp.Mf_neg_left if end == "left" else inp.Mf_neg_right) or 0.0
             if not vf:
                 continue
-            a = (inp.Mf_pos + mneg) / vf
-            t("scope_deep", None, f"a {end}", a, "mm", c_ss,
-              "shear span estimate (Mf+ + Mf- at that end) / Vf: exact for one point load, short under uniform load")
+            a, words = shear_span(inp.Mf_pos, mneg, vf, other, ln)
+            t("scope_deep", None, f"a {end}", a, "mm", c_ss, words)
             t("scope_deep", None, f"a/d {end}", a / flex.d, "", c_ss, f"d = {flex.d:.0f} mm (midspan bottom bars)")
             if a / flex.d < ratio_min:
-                reasons.append(f"shear span a ≈ (Mf+ + Mf-)/Vf = {a:.0f} mm at the {end} end is {a / flex.d:.2f} d < "
-                               f"{ratio_min:g} d: a deep shear span, designed by strut-and-tie (cl. {c_ss}); if the "
-                               "load is spread rather than concentrated, confirm the true shear span")
+                reasons.append(f"the shear span at the {end} end, a ≈ {a:.0f} mm ({words}), is {a / flex.d:.2f} d < "
+                               f"{ratio_min:g} d: a deep shear span, designed by strut-and-tie (cl. {c_ss}); sectional "
+                               "shear does not check its ties, nodes and anchorage")
             else:
                 made.append(f"a/d {end} = {a / flex.d:.2f} ≥ {ratio_min:g}")
     if reasons:
