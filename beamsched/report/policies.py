@@ -33,6 +33,19 @@ BY_CHECK: dict[str, str] = {
                   "provided is at least 4/3 of the steel the factored moment needs (cl. 10.5.1.3).",
     "shear": "Shear (cl. 11.3) is checked at each end against that end's Vf: the simplified method "
              "(cl. 11.3.6.3) where f'c ≤ 60 MPa and fy ≤ 400 MPa, the general method (cl. 11.3.6.4) beyond.",
+    "torsion": ("Torsion (cl. 11.2.9.1): a scheduled Tf above the threshold makes the span INCOMPLETE (full "
+                "torsion design, cl. 11.3.10, is not made). An L-beam with no Tf is INCOMPLETE (torsion not "
+                "assessed); Tf = 0 states that torsion was assessed. Other beams with no Tf carry a reminder."),
+    "min_depth": ("Minimum depth (cl. 9.8.2.1, Table 9.2): a pass only waives the deflection calculation, and only for "
+                  "members not supporting or attached to partitions likely to be damaged by deflection; a shallower "
+                  "member is INCOMPLETE (a deflection calculation is needed). Neither result means deflection is "
+                  "acceptable."),
+    "scope_": ("Scope: a member that sectional design does not cover (a deep member, cl. 10.7.1, or deep shear "
+               "span, cl. 11.4; a member of the seismic force-resisting system, Clause 21; a beam-column) is "
+               "INCOMPLETE with the reason, never PASS. Shear spans are estimated from the scheduled demands, so "
+               "the engineer must still identify transfer girders."),
+    "bar_fit": ("Bar fit: the bars of each layer are counted against the minimum clear spacing of CSA A23.1 "
+                "(reproduced in A23.3 Annex A), with the cover, the stirrups and their bends at the corner bars."),
 }
 
 

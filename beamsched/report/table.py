@@ -68,6 +68,11 @@ def value_keys(results: list[BeamResult] | tuple[BeamResult, ...], *, per_end: b
     return sorted(keys, key=order)
 
 
+def is_capacity(key: str) -> bool:
+    """A factored resistance, by the standard's naming: a symbol ending in ``r`` (Mr, Vr, Tr, Pr)."""
+    return re.fullmatch(r"[A-Z][A-Za-z]*r", key.split("_", 1)[0]) is not None
+
+
 @dataclass(frozen=True)
 class CheckColumn:
     id: str
@@ -127,6 +132,8 @@ class SpanRow:
     governing: CheckResult | None
     by_check: dict[str, float | None]  # check id -> largest utilisation at any location
     made: dict[str, bool]  # check id -> at least one location made (False: not checked anywhere)
+    state: dict[str, CheckStatus | None]  # check id -> FAIL if any location fails, else PASS if any
+    # was made, else NOT_CHECKED; None where the span has no such check (it does not apply)
     notes: tuple[str, ...]
     not_made: tuple[str, ...]
 
@@ -150,10 +157,14 @@ class SpanRow:
 def span_row(r: BeamResult, index: int, columns: list[CheckColumn]) -> SpanRow:
     by_check: dict[str, float | None] = {}
     made: dict[str, bool] = {}
+    state: dict[str, CheckStatus | None] = {}
     for col in columns:
         these = [c for c in r.checks if c.id == col.id]
         by_check[col.id] = max_utilisation(these)
         made[col.id] = any(c.status is not CheckStatus.NOT_CHECKED for c in these)
+        statuses = {c.status for c in these}
+        state[col.id] = next((s for s in (CheckStatus.FAIL, CheckStatus.PASS, CheckStatus.NOT_CHECKED)
+                              if s in statuses), None)
     notes: list[str] = []
     if r.status is BeamStatus.ERROR:
         notes += [problem_note(p) for p in r.problems] or ["Not read: the row could not be read."]
@@ -165,7 +176,7 @@ def span_row(r: BeamResult, index: int, columns: list[CheckColumn]) -> SpanRow:
         notes += [problem_note(p) for p in r.problems]
     gov = r.governing
     u = max_utilisation(r.checks)
-    return SpanRow(r, index, u, gov, by_check, made, tuple(notes),
+    return SpanRow(r, index, u, gov, by_check, made, state, tuple(notes),
                    tuple(check_display(c) for c in r.not_checked))
 
 
@@ -184,6 +195,7 @@ class Report:
             self.version = __version__
         self.columns = check_columns(self.results)
         self.value_keys = value_keys(self.results)
+        self.capacity_keys = [k for k in self.value_keys if is_capacity(k)]
         self.rows = [span_row(r, i, self.columns) for i, r in enumerate(self.results)]
 
     # -- counts and rankings ---------------------------------------------------------------

@@ -21,19 +21,19 @@ import textwrap
 from pathlib import Path
 
 from .. import CAUTION
-from ..model import BeamInput, BeamStatus, CheckResult
+from ..model import BeamInput, BeamStatus, CheckResult, CheckStatus
 from . import palette as P
 from .atomic import atomic_path
 from .policies import policies_for
-from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header
+from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header, value_unit
 
 SHEETS = ("Overview", "Spans", "Working", "Input problems", "About")
 MAX_ROWS = 1_048_576  # rows in one worksheet (Excel's limit)
-LINE_HEIGHT = 15.0  # points per wrapped line, 10-point text
+LINE_HEIGHT = 13.0  # points per wrapped line, 10-point Arial (12.75 pt single-spaced, common practice)
 TITLE = "Concrete beam schedule check"
 # Characters of 10-point Arial that fit in one unit of column width (a unit is the width of one
 # digit of the default 11-point font); measured on rendered pages, rounded down.
-CHARS_PER_WIDTH = 1.3
+CHARS_PER_WIDTH = 1.4
 
 
 class Formats:
@@ -137,6 +137,17 @@ class _Writer:
             ws.write_number(row, col, u, self.f.get(band.swatch, "0.000", align="center"))
         else:
             ws.write_string(row, col, "∞", self.f.get(band.swatch, align="center"))
+
+    def check_cell(self, ws, row: int, col: int, u: float | None, state: CheckStatus | None) -> None:
+        """One check's cell in the results table: its largest utilisation; where it has no number,
+        its status word; "—" where the span has no such check."""
+        if u is not None:
+            self.util_cell(ws, row, col, u)
+        elif state is None:
+            ws.write_string(row, col, "—", self.f.get(P.NEUTRAL, align="center"))
+        else:
+            st = P.CHECK_STATUS[state]
+            ws.write_string(row, col, st.word, self.f.get(st.swatch, align="center", text_wrap=True))
 
     def page_setup(self, ws, repeat_row: int | None, last_col: int, title: str) -> None:
         r = self.r
@@ -250,7 +261,10 @@ class _Writer:
         })
         chart.set_title({"name": "Spans by largest utilisation", "name_font": {"size": 11, "bold": True}})
         chart.set_x_axis({"name": "largest utilisation of the span (demand / capacity)"})
-        chart.set_y_axis({"name": "spans", "major_gridlines": {"visible": True, "line": {"color": "#D0D0D0"}}})
+        most = max([1] + [sum(1 for x in r.rows if x.utilisation is not None and lo < x.utilisation <= hi)
+                          for _, lo, hi in bins])
+        chart.set_y_axis({"name": "spans", "min": 0, "num_format": "0", "major_unit": max(1, math.ceil(most / 8)),
+                          "major_gridlines": {"visible": True, "line": {"color": "#D0D0D0"}}})
         chart.set_legend({"none": True})
         chart.set_size({"width": 560, "height": 300})
         ws.insert_chart(first_bin - 2, 4, chart, {"x_offset": 10, "y_offset": 0})
@@ -296,6 +310,11 @@ class _Writer:
             ws.write_number(row, 0, samples.get(band.name, 0.5), f.get(band.swatch, "0.000", align="center"))
             ws.write_string(row, 1, f"{band.name}: {band.meaning}", plain)
             row += 1
+        for cs in (CheckStatus.PASS, CheckStatus.FAIL):
+            cst = P.CHECK_STATUS[cs]
+            ws.write_string(row, 0, cst.word, f.get(cst.swatch, align="center"))
+            ws.write_string(row, 1, f"in a check column: the check was made and gives no number ({cst.meaning})", plain)
+            row += 1
         st = P.NOT_CHECKED_CELL
         ws.write_string(row, 0, st.word, f.get(st.swatch, align="center"))
         ws.write_string(row, 1, "the check applies to the span but could not be made: the note says why", plain)
@@ -317,24 +336,28 @@ class _Writer:
         r, f = self.r, self.f
         ws = self.wb.add_worksheet("Spans")
         cols: list[tuple[str, float]] = [
-            ("Row", 6), ("Mark", 10), ("Span\nno.", 6), ("Status", 12), ("Max\nutilisation", 11),
-            ("Governing check", 14), ("Governs\nat", 8),
+            ("Row", 5), ("Mark", 8), ("Span\nno.", 5), ("Status", 11.5), ("Max\nutilisation", 7.5),
+            ("Governing check", 13), ("Governs\nat", 6),
         ]
         n_fixed = len(cols)
-        cols += [(f"{c.label}\nutilisation", 11) for c in r.columns]
-        cols += [(value_header(k).replace(" (", "\n("), 11) for k in r.value_keys]
-        cols += [("Section\n(mm, MPa)", 26), ("Understood from the schedule", 52),
-                 ("Defaults applied", 30), ("Checks not made", 24), ("Notes (clause named)", 80)]
+        cols += [(f"{c.label}\nutilisation", 6.5) for c in r.columns]
+        cols += [(value_header(k).replace(" (", "\n("), 7.5) for k in r.capacity_keys]
+        n_rotated = len(cols)
+        cols += [("Section\n(mm, MPa)", 17), ("Understood from the schedule", 40),
+                 ("Defaults applied", 26), ("Checks not made", 18), ("Notes (clause named)", 64)]
         for i, (_, w) in enumerate(cols):
             ws.set_column(i, i, w)
-        ws.set_row(0, LINE_HEIGHT * 3.2)
+        longest = max((len(line) for head, _ in cols[n_fixed:n_rotated] for line in head.split("\n")), default=10)
+        ws.set_row(0, max(LINE_HEIGHT * 3.2, 6.0 * longest + 8))
+        rotated = f.get(P.HEADER, text_wrap=True, border=1, border_color="#FFFFFF", rotation=90, valign="bottom",
+                        align="center")
         for i, (head, _) in enumerate(cols):
-            ws.write_string(0, i, head, f.header())
+            ws.write_string(0, i, head, rotated if n_fixed <= i < n_rotated else f.header())
         wrap = f.get(text_wrap=True)
         plain = f.get()
         for n, x in enumerate(r.rows, start=1):
             res = x.result
-            i_sec = n_fixed + len(r.columns) + len(r.value_keys)
+            i_sec = n_rotated
             texts = {i_sec: section_text(res.input), i_sec + 1: understood_text(x),
                      i_sec + 2: "\n".join(res.assumed) or "none", i_sec + 3: "\n".join(x.not_made),
                      i_sec + 4: x.note_text}
@@ -351,16 +374,15 @@ class _Writer:
             ws.write_string(n, 5, g.label if g else "—", plain)
             ws.write_string(n, 6, LOCATION_WORDS[g.location] if g else "", f.get(align="center"))
             for j, c in enumerate(r.columns):
-                has = any(ch.id == c.id for ch in res.checks)
-                self.util_cell(ws, n, n_fixed + j, x.by_check[c.id], made=not has or x.made[c.id])
-            for j, k in enumerate(r.value_keys):
+                self.check_cell(ws, n, n_fixed + j, x.by_check[c.id], x.state[c.id])
+            for j, k in enumerate(r.capacity_keys):
                 v = res.values.get(k)
                 col = n_fixed + len(r.columns) + j
                 if isinstance(v, (int, float)) and math.isfinite(v):
                     ws.write_number(n, col, v, f.get(num="#,##0.0"))
                 elif v is not None:
                     ws.write_string(n, col, str(v), plain)
-            ws.write_string(n, i_sec, texts[i_sec], wrap)
+            ws.write_string(n, i_sec, texts[i_sec], f.get(text_wrap=True, indent=1))
             ws.write_string(n, i_sec + 1, texts[i_sec + 1], wrap)
             ws.write_string(n, i_sec + 2, texts[i_sec + 2], f.get(P.ASSUMED, text_wrap=True) if res.assumed else wrap)
             ws.write_string(n, i_sec + 3, texts[i_sec + 3], wrap)
@@ -389,7 +411,7 @@ class _Writer:
         row = 1
         for x in r.rows:
             res = x.result
-            if row + 3 + len(res.trace) + len(res.checks) + len(res.problems) >= MAX_ROWS:
+            if row + 3 + len(res.trace) + len(res.checks) + len(res.problems) + len(res.values) >= MAX_ROWS:
                 ws.write_string(row, 0, f"The working of {len(r.rows) - x.index} more spans, from {x.label} on, "
                                         "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
                                         "batches to see their working.", f.get(bold=True))
@@ -413,6 +435,18 @@ class _Writer:
                     ws.write_string(row, 3, "" if p.value is None else str(p.value), plain)
                     ws.write_string(row, 6, ("Warning: " if p.severity == "warning" else "Not read: ") + p.message, wrap)
                     row += 1
+            for k, v in res.values.items():
+                if v is None:
+                    continue
+                ws.write_string(row, 0, "Result values", plain)
+                ws.write_string(row, 2, value_header(k).split(" (")[0], plain)
+                if isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v):
+                    ws.write_number(row, 3, v, f.get(num=sig_format(v)))
+                else:
+                    ws.write_string(row, 3, str(v), plain)
+                ws.write_string(row, 4, value_unit(k), f.get(indent=1))
+                ws.write_string(row, 6, f"{k} (the name in the JSON and CSV results)", f.get(italic=True))
+                row += 1
             groups: dict[tuple, list] = {}
             for t in res.trace:
                 groups.setdefault((t.check, t.location), []).append(t)
@@ -540,7 +574,7 @@ class _Writer:
             put("Policies" if i == 0 else "", text)
         row += 1
         for i, c in enumerate(r.columns):
-            put("Checks made in this run" if i == 0 else "", f"{c.label} ({c.id}): CSA clause {c.clause}")
+            put("Checks made in this run" if i == 0 else "", f"{c.label} ({c.id}): cl. {c.clause}")
         if not r.columns:
             put("Checks made in this run", "none")
         row += 1
