@@ -30,13 +30,14 @@ from .jsonout import _smaller_of_ends
 from .table import Report, SpanRow
 
 NOTICE_SHEET = "beamsched check"
+# One-line headers: the user's header row keeps its height.
 RESULT_COLUMNS = (
-    ("beamsched\nMr+ (kN·m)", 12, "Mr_pos_kNm"),
-    ("beamsched\nMr− (kN·m)\nsmaller end", 12, "Mr_neg_kNm"),
-    ("beamsched\nVr (kN)\nsmaller end", 12, "Vr_kN"),
-    ("beamsched\nmax\nutilisation", 12, None),
-    ("beamsched\nstatus", 13, None),
-    ("beamsched note", 60, None),
+    ("beamsched Mr+ (kN·m)", 21, "Mr_pos_kNm"),
+    ("beamsched Mr− (kN·m), smaller end", 32, "Mr_neg_kNm"),
+    ("beamsched Vr (kN), smaller end", 29, "Vr_kN"),
+    ("beamsched max utilisation", 25, None),
+    ("beamsched status", 17, None),
+    ("beamsched note (all notes in the cell comment and the results workbook)", 90, None),
 )
 
 # Parts of an .xlsx package, counted in the original and in the copy.
@@ -88,16 +89,26 @@ def _argb(hex_colour: str) -> str:
 
 
 class _Styles:
-    def __init__(self):
+    def __init__(self, font_name: str | None = None, font_size: float | None = None):
         from openpyxl.styles import Alignment, Font, PatternFill
 
-        self.Alignment, self.Font, self.PatternFill = Alignment, Font, PatternFill
+        self.Alignment, self.PatternFill = Alignment, PatternFill
+        self.name, self.size = font_name or "Calibri", font_size or 11
+
+        def font(**kw):  # the user's font face and size, our colour and weight
+            kw.setdefault("name", self.name)
+            kw.setdefault("size", self.size)
+            return Font(**kw)
+
+        self.Font = font
 
     def apply(self, cell, swatch: P.Swatch | None, *, num: str | None = None, wrap: bool = False,
               center: bool = False) -> None:
         if swatch is not None:
             cell.fill = self.PatternFill("solid", fgColor=_argb(swatch.fill), bgColor=_argb(swatch.fill))
             cell.font = self.Font(color=_argb(swatch.text), bold=swatch.bold, italic=swatch.italic)
+        else:
+            cell.font = self.Font()
         if num:
             cell.number_format = num
         cell.alignment = self.Alignment(wrap_text=wrap, vertical="top", horizontal="center" if center else None)
@@ -144,6 +155,7 @@ def _notice(wb, report: Report, source: Path, sheet: str, first_col: str, lost: 
     for label, text, swatch in rows:
         a, b = ws.cell(r, 1, label), ws.cell(r, 2, text)
         a.font = Font(bold=True, color="FF9E1B22" if label == "NOT CARRIED OVER" else None)
+        b.font = Font()
         b.alignment = Alignment(wrap_text=True, vertical="top")
         a.alignment = Alignment(vertical="top", horizontal="center" if swatch else None)
         if swatch is not None:
@@ -151,6 +163,11 @@ def _notice(wb, report: Report, source: Path, sheet: str, first_col: str, lost: 
         lines = sum(max(1, math.ceil(len(part) / 105)) for part in text.split("\n")) if text else 1
         ws.row_dimensions[r].height = 15 * lines
         r += 1
+    from openpyxl.worksheet.properties import PageSetupProperties
+
+    ws.page_setup.orientation = "landscape"
+    ws.page_setup.fitToWidth, ws.page_setup.fitToHeight = 1, 0
+    ws.sheet_properties.pageSetUpPr = PageSetupProperties(fitToPage=True)
     ws.sheet_view.tabSelected = True
     for other in wb.worksheets[1:]:
         other.sheet_view.tabSelected = False
@@ -182,11 +199,12 @@ def write_annotated(report: Report, source: str | os.PathLike, target: str | os.
     span_rows = [x.result.row for x in report.rows if x.result.row is not None]
     last = _last_table_column(ws, header, max(span_rows, default=header))
     first = last + 1
-    styles = _Styles()
+    user_font = ws.cell(header, max(last, 1)).font
+    styles = _Styles(user_font.name if user_font else None, user_font.sz if user_font else None)
     for j, (head, width, _) in enumerate(RESULT_COLUMNS):
         col = first + j
         cell = ws.cell(header, col, head)
-        styles.apply(cell, P.HEADER, wrap=True, center=True)
+        styles.apply(cell, P.HEADER, center=True)
         ws.column_dimensions[get_column_letter(col)].width = width
     for x in report.rows:
         _annotate_row(ws, x, first, styles, Comment)
