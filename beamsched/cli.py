@@ -370,7 +370,7 @@ def print_summary(report, outcome: Outcome, out: TextIO) -> None:
     for note in outcome.notes:
         w(f"Note: {note}\n")
     w(f"\nExit code {outcome.code}: {EXIT_WORDS[outcome.code]}.\n")
-    w("\n" + "\n".join(textwrap.wrap("CAUTION: " + CAUTION, 92)) + "\n")
+    w(f"\nCAUTION: {CAUTION}\n")
 
 
 # -- commands -----------------------------------------------------------------------------------

@@ -408,6 +408,7 @@ class _Writer:
         wrap = f.get(text_wrap=True)
         plain = f.get()
         labels = {c.id: c.label for c in r.columns}
+        unit_fmt = f.get(indent=1)
         row = 1
         for x in r.rows:
             res = x.result
@@ -458,7 +459,9 @@ class _Writer:
                 for t in lines:
                     name = labels.get(t.check, t.check.replace("_", " ").capitalize())
                     ws.write_string(row, 0, name, plain)
-                    ws.write_string(row, 1, LOCATION_WORDS.get(t.location, str(t.location)), plain)
+                    where = LOCATION_WORDS.get(t.location, str(t.location))
+                    if where:  # empty cells are left unwritten: the sheet can run to a million rows
+                        ws.write_string(row, 1, where, plain)
                     ws.write_string(row, 2, t.symbol, plain)
                     if isinstance(t.value, (int, float)) and not isinstance(t.value, bool):
                         if math.isfinite(t.value):
@@ -467,8 +470,10 @@ class _Writer:
                             ws.write_string(row, 3, "∞" if t.value > 0 else "−∞", plain)
                     elif t.value is not None:
                         ws.write_string(row, 3, str(t.value), plain)
-                    ws.write_string(row, 4, t.unit, f.get(indent=1))
-                    ws.write_string(row, 5, t.clause, plain)
+                    if t.unit:
+                        ws.write_string(row, 4, t.unit, unit_fmt)
+                    if t.clause:
+                        ws.write_string(row, 5, t.clause, plain)
                     ws.write_string(row, 6, t.description, wrap)
                     row += 1
                 for c in results_by_key.get(key, []):
