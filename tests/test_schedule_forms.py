@@ -134,7 +134,7 @@ def test_formula_without_cached_value_is_an_error_on_that_row(tmp_path):
     f, b = s.rows
     assert isinstance(f, RowFailure) and b.Mf_pos == 150e6
     (p,) = f.problems
-    assert p.column == "Mf+ (kN·m)" and "formula (=1.25*22*F2^2/8+1.5*10*F2^2/8) with no saved value" in p.message
+    assert p.column == "Mf+ (kN·m)" and "= '=1.25*22*F2^2/8+1.5*10*F2^2/8': a formula with no saved value" in p.message
     assert "open and save the workbook" in p.message
 
 

@@ -25,7 +25,7 @@ _EXCEL_ERRORS = ("#DIV/0!", "#N/A", "#NAME?", "#NULL!", "#NUM!", "#REF!", "#VALU
 
 def common_checks(cell: Cell, expected: str) -> None:
     if cell.uncached:
-        raise CellError(f"a formula ({cell.formula}) with no saved value",
+        raise CellError("a formula with no saved value",
                         f"{expected}: open and save the workbook in Excel or LibreOffice so the result is stored, "
                         "or paste the values")
     if isinstance(cell.value, str) and cell.value.strip().upper() in _EXCEL_ERRORS:

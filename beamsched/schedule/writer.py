@@ -16,6 +16,9 @@ def _atomic(path: Path, write) -> None:
     os.close(fd)
     try:
         write(Path(tmp))
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes the file private; give it the usual mode
         os.replace(tmp, path)
     except BaseException:
         if os.path.exists(tmp):
