@@ -50,6 +50,10 @@ def _is_aggregate(key: str, keys: set[str]) -> bool:
     return f"{head}_left_{unit}" in keys or f"{head}_right_{unit}" in keys
 
 
+def _base(key: str) -> str:
+    return key.replace("_left", "").replace("_right", "")
+
+
 def value_keys(results: list[BeamResult] | tuple[BeamResult, ...], *, per_end: bool = True) -> list[str]:
     """Every value name found in the results: Mr first, then Vr, then the rest, each group in
     the order first met. ``per_end`` drops the both-ends aggregates where the ends are shown."""
@@ -61,9 +65,14 @@ def value_keys(results: list[BeamResult] | tuple[BeamResult, ...], *, per_end: b
     if per_end:
         keys = {k for k in keys if not _is_aggregate(k, keys)}
 
-    def order(k: str) -> tuple[int, int]:
+    bases: dict[str, int] = {}
+    for k in seen:
+        bases.setdefault(_base(k), len(bases))
+
+    def order(k: str) -> tuple[int, int, int]:
         sym = k.split("_", 1)[0]
-        return (_SYMBOL_ORDER.index(sym) if sym in _SYMBOL_ORDER else len(_SYMBOL_ORDER), seen[k])
+        end = 1 if "_left" in k else 2 if "_right" in k else 0
+        return (_SYMBOL_ORDER.index(sym) if sym in _SYMBOL_ORDER else len(_SYMBOL_ORDER), bases[_base(k)], end)
 
     return sorted(keys, key=order)
 

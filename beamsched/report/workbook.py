@@ -33,7 +33,7 @@ LINE_HEIGHT = 13.0  # points per wrapped line, 10-point Arial (12.75 pt single-s
 TITLE = "Concrete beam schedule check"
 # Characters of 10-point Arial that fit in one unit of column width (a unit is the width of one
 # digit of the default 11-point font); measured on rendered pages, rounded down.
-CHARS_PER_WIDTH = 1.4
+CHARS_PER_WIDTH = 1.6
 
 
 class Formats:
@@ -343,8 +343,8 @@ class _Writer:
         cols += [(f"{c.label}\nutilisation", 6.5) for c in r.columns]
         cols += [(value_header(k).replace(" (", "\n("), 7.5) for k in r.capacity_keys]
         n_rotated = len(cols)
-        cols += [("Section\n(mm, MPa)", 17), ("Understood from the schedule", 40),
-                 ("Defaults applied", 26), ("Checks not made", 18), ("Notes (clause named)", 64)]
+        cols += [("Section\n(mm, MPa)", 17), ("Understood from the schedule", 44),
+                 ("Defaults applied", 34), ("Checks not made", 18), ("Notes (clause named)", 64)]
         for i, (_, w) in enumerate(cols):
             ws.set_column(i, i, w)
         longest = max((len(line) for head, _ in cols[n_fixed:n_rotated] for line in head.split("\n")), default=10)
