@@ -255,7 +255,7 @@ def check_rows(schedule, progress: Progress):
     return results
 
 
-def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None) -> Outcome:
+def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None, demo: bool = False) -> Outcome:
     """Read, check and write as planned; print the summary. Returns the exit code and the files."""
     out = out if out is not None else sys.stdout
     err = err if err is not None else sys.stderr
@@ -308,7 +308,7 @@ def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None) -> Out
             outcome.notes.append(note)
             print(f"beamsched: note: {note}", file=err)
     progress.done()
-    print_summary(report, outcome, out)
+    print_summary(report, outcome, out, demo)
     return outcome
 
 
@@ -329,7 +329,7 @@ EXIT_WORDS = {
 }
 
 
-def print_summary(report, outcome: Outcome, out: TextIO) -> None:
+def print_summary(report, outcome: Outcome, out: TextIO, demo: bool = False) -> None:
     from .model import BeamStatus
     from .report.palette import SPAN_STATUS, format_utilisation
     from .report.table import check_display
@@ -351,6 +351,13 @@ def print_summary(report, outcome: Outcome, out: TextIO) -> None:
             row = "" if x.result.row is None else str(x.result.row)
             w(f"  {x.label:<{wl}}  {row:>5}  {format_utilisation(x.utilisation):>15}  "
               f"{SPAN_STATUS[x.status].word:<10}  {check_display(g) if g else ''}\n")
+    incomplete = report.incomplete(10)
+    if incomplete:
+        n = counts[BeamStatus.INCOMPLETE]
+        w(f"\nIncomplete spans (a required check could not be made; never a pass){'' if n <= 10 else ', the first 10'}:\n")
+        for x in incomplete:
+            row = "" if x.result.row is None else f"row {x.result.row}"
+            w(f"  {x.label} ({row}): {x.first_note}\n")
     problems = report.all_problems()
     errors = [(r, lbl, p) for r, lbl, p in problems if p.severity == "error"]
     if errors:
@@ -358,7 +365,7 @@ def print_summary(report, outcome: Outcome, out: TextIO) -> None:
         for r, _lbl, p in errors[:10]:
             where = f"row {r}" if r is not None else "file"
             msg = p.message
-            if msg.lower().startswith(where + ","):
+            if msg.lower().startswith((where + ",", where + ":")):
                 msg = msg[len(where) + 1:].strip()
             w(f"  {where}: {msg}\n")
         if len(errors) > 10:
@@ -369,7 +376,10 @@ def print_summary(report, outcome: Outcome, out: TextIO) -> None:
             w(f"  {kind + ':':<18} {path.resolve()}\n")
     for note in outcome.notes:
         w(f"Note: {note}\n")
-    w(f"\nExit code {outcome.code}: {EXIT_WORDS[outcome.code]}.\n")
+    if demo:
+        w(f"\n'beamsched check' of this schedule would exit {outcome.code}: {EXIT_WORDS[outcome.code]}.\n")
+    else:
+        w(f"\nExit code {outcome.code}: {EXIT_WORDS[outcome.code]}.\n")
     w(f"\nCAUTION: {CAUTION}\n")
 
 
@@ -391,7 +401,7 @@ def _cmd_demo(args) -> int:
     output = folder / f"{sample.stem}{RESULTS_SUFFIX}.xlsx"
     print(f"Checking the bundled sample schedule {sample}")
     print("(an invented floor; some spans fail and some rows are unreadable on purpose)\n")
-    outcome = run(make_plan(str(sample), str(output), None, None, False, None))
+    outcome = run(make_plan(str(sample), str(output), None, None, False, None), demo=True)
     if not any(kind == "Results workbook" for kind, _ in outcome.written):
         return EXIT_UNREADABLE
     print(f"\nThe demo results are in {output.resolve()}")

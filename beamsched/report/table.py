@@ -179,7 +179,9 @@ def span_row(r: BeamResult, index: int, columns: list[CheckColumn]) -> SpanRow:
         notes += [problem_note(p) for p in r.problems] or ["Not read: the row could not be read."]
     else:
         notes += [check_note(c) for c in r.checks if c.status is CheckStatus.FAIL]
-        notes += [check_note(c) for c in r.checks if c.status is CheckStatus.NOT_CHECKED]
+        # checks the span needed come before reminders, so the first note says why it is incomplete
+        notes += [check_note(c) for c in r.checks if c.status is CheckStatus.NOT_CHECKED and c.required]
+        notes += [check_note(c) for c in r.checks if c.status is CheckStatus.NOT_CHECKED and not c.required]
         if not r.checks:
             notes.append("No check could be made for this span.")
         notes += [problem_note(p) for p in r.problems]
@@ -219,6 +221,10 @@ class Report:
         """The n spans with the largest utilisation (infinite first), ties in schedule order."""
         rated = [r for r in self.rows if r.utilisation is not None]
         return sorted(rated, key=lambda r: (-_sort_value(r.utilisation), r.index))[:n]
+
+    def incomplete(self, n: int = 10) -> list[SpanRow]:
+        """The first n incomplete spans in schedule order (never hidden behind the utilisation ranking)."""
+        return [r for r in self.rows if r.status is BeamStatus.INCOMPLETE][:n]
 
     def all_problems(self) -> list[tuple[int | None, str, Problem]]:
         """(row, span label, problem): the file's own problems, then each row's, in order."""

@@ -294,6 +294,30 @@ class _Writer:
             ws.write_string(row, 5, LOCATION_WORDS[g.location] if g else "", plain)
             ws.write_string(row, 6, note, wrap)
             row += 1
+        incomplete = r.incomplete(10)
+        if incomplete:
+            row += 1
+            n = r.count(BeamStatus.INCOMPLETE)
+            ws.write_string(row, 0, "Incomplete spans (a required check could not be made; never a pass)"
+                            + ("" if n <= 10 else f": the first 10 of {n}, all on Spans"), section)
+            row += 1
+            ws.set_row(row, 30)
+            for col, head in enumerate(("Span", "Schedule row", "Max utilisation", "Status", "Check not made", "",
+                                        "Why")):
+                ws.write_string(row, col, head, f.header())
+            row += 1
+            for x in incomplete:
+                why = next((c for c in x.result.not_checked if c.required), None)
+                note = x.first_note
+                ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), 6))
+                ws.write_string(row, 0, x.label, bold)
+                if x.result.row is not None:
+                    ws.write_number(row, 1, x.result.row, f.get(num="0", align="center"))
+                self.util_cell(ws, row, 2, x.utilisation)
+                self.status_cell(ws, row, 3, x.status)
+                ws.write_string(row, 4, check_display(why) if why else "—", plain)
+                ws.write_string(row, 6, note, wrap)
+                row += 1
         row += 1
         ws.write_string(row, 0, "Legend", section)
         row += 1
