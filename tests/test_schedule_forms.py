@@ -166,3 +166,16 @@ def test_formula_with_a_cached_value_from_libreoffice(tmp_path):
     s = read_schedule(outdir / "formula.xlsx")
     assert s.spans[0].Mf_pos == pytest.approx(EXPECTED_MF) and len(s.spans) == 2
     assert s.spans[1].Mf_pos == 150e6
+
+
+def test_text_starting_with_equals_is_not_a_formula(tmp_path):
+    import openpyxl
+
+    p = write_schedule(tmp_path / "eq.xlsx", HEADER_F + ["Notes"], [["F1", 300, 600, 30, 400, 6, 150, "4-25M", "x"]])
+    wb = openpyxl.load_workbook(p)
+    cell = wb.active["I2"]
+    cell.value = "= see sketch SK-4"
+    cell.data_type = "s"  # stored as text, as a spreadsheet does for a cell formatted as Text
+    wb.save(p)
+    (b,) = read_schedule(p).spans
+    assert b.notes == "= see sketch SK-4"

@@ -100,7 +100,7 @@ def test_overstressed_spans_fail(sample, mark, span_no, check_id):
 
 # (mark, span no., words in the problem) — each mistake gives its message
 MISTAKES = [
-    ("B6", 3, "'350 mm': text, not a number"), ("B7", 2, "cannot read '4-25'"), ("G6", 1, "unknown bar size '28M'"),
+    ("B6", 3, "'350 mm': text, not a number"), ("B7", 2, "'4-25': unreadable bar notation: expected a bar group"), ("G6", 1, "unknown bar size '28M'"),
     ("B8", 4, "spacing must be greater than zero"), ("TR4", None, "3500: expected 20 to 80 MPa"),
     ("B9", 1, "flange thickness"), ("AT3", 1, "less than h = 700 mm"), ("TR5", None, "-85: expected zero or more"),
     ("B10", 1, "depth h is blank"), ("TR3", None, "a formula with no saved value"),

@@ -191,13 +191,15 @@ def _duplicates(rows: list[BeamInput | RowFailure], body, hdr) -> list[BeamInput
             numbers = ", ".join(str(body[j][0]) for j in others)
             same = [identical(body[i][1], body[j][1], hdr) for j in others]
             if all(s for s, _ in same):
-                p = Problem(f"row {body[i][0]}: {what} is scheduled again, identically, on row {numbers}; each copy "
+                p = Problem(f"row {body[i][0]}, '{hdr.label('mark')}' = '{rows[i].mark}': {what} is scheduled again, "
+                            f"identically, on row {numbers}; each copy "
                             "is checked: delete the repeat, or use Qty for identical beams",
                             hdr.label("mark"), rows[i].mark, body[i][0], "warning")
             else:
                 differ = sorted({label for s, d in same for label in d})
                 hint = "" if "span_no" in hdr.index else "; if they are spans of one beam, number them in 'Span no.'"
-                p = Problem(f"row {body[i][0]}: {what} is scheduled again on row {numbers} with different contents "
+                p = Problem(f"row {body[i][0]}, '{hdr.label('mark')}' = '{rows[i].mark}': {what} is scheduled again "
+                            f"on row {numbers} with different contents "
                             f"({', '.join(differ)}): expected one row per mark and span{hint}",
                             hdr.label("mark"), rows[i].mark, body[i][0])
             out[i] = add_problem(out[i], p)

@@ -78,36 +78,69 @@ def _is_formula(v: object) -> str | None:
 
 
 def read_workbook(path: Path) -> list[Grid]:
-    """Every sheet of an .xlsx/.xlsm workbook as a :class:`Grid` (values and formulas)."""
+    """Every sheet of an .xlsx/.xlsm workbook as a :class:`Grid` (values and formulas).
+
+    The formulas pass reads every cell; a second, values-only pass is made only when the
+    workbook holds formulas, to take their saved results.
+    """
     import openpyxl
 
     if not zipfile.is_zipfile(path):
         raise ScheduleError(f"{path.name} is not an .xlsx/.xlsm workbook (not a zip package): "
                             "save it as .xlsx, or export the schedule as .csv")
+    grids: list[Grid] = []
+    formulas: list[list[tuple[int, int, int, str]]] = []  # per sheet: (row index, column, row number, text)
     try:
-        values_wb = openpyxl.load_workbook(path, read_only=True, data_only=True)
-        formula_wb = openpyxl.load_workbook(path, read_only=True, data_only=False)
+        wb = openpyxl.load_workbook(path, read_only=True, data_only=False)
     except Exception as exc:  # openpyxl raises many types for a damaged package
         raise ScheduleError(f"{path.name} cannot be opened as a workbook: {exc}") from exc
-    grids = []
     try:
-        for ws_v, ws_f in zip(values_wb.worksheets, formula_wb.worksheets, strict=True):
+        for ws in wb.worksheets:
             rows: list[tuple[int, list[Cell]]] = []
-            for number, (vals, forms) in enumerate(
-                    zip(ws_v.iter_rows(values_only=True), ws_f.iter_rows(values_only=True), strict=False), start=1):
+            found: list[tuple[int, int, int, str]] = []
+            for number, values in enumerate(ws.iter_rows(values_only=True), start=1):
                 cells = []
-                for v, f in zip(vals, forms, strict=False):
-                    formula = _is_formula(f)
-                    if formula is not None and isinstance(v, str) and v == f:
-                        formula = None  # text that happens to start with '='
-                    cells.append(Cell(v, formula))
+                for j, v in enumerate(values):
+                    formula = _is_formula(v)
+                    if formula is not None:
+                        found.append((len(rows), j, number, formula))
+                        cells.append(Cell(None, formula))
+                    else:
+                        cells.append(Cell(v))
                 if not all(c.blank for c in cells):
                     rows.append((number, cells))
-            grids.append(Grid(ws_v.title, rows))
+            grids.append(Grid(ws.title, rows))
+            formulas.append(found)
+    except Exception as exc:
+        raise ScheduleError(f"{path.name} cannot be read as a workbook: {exc}") from exc
     finally:
-        values_wb.close()
-        formula_wb.close()
+        wb.close()
+    if any(formulas):
+        _saved_results(path, grids, formulas)
     return grids
+
+
+def _saved_results(path: Path, grids: list[Grid], formulas: list[list[tuple[int, int, int, str]]]) -> None:
+    """Fill in the saved result of every formula cell (None where the file stores none)."""
+    import openpyxl
+
+    wb = openpyxl.load_workbook(path, read_only=True, data_only=True)
+    try:
+        for grid, ws, found in zip(grids, wb.worksheets, formulas, strict=True):
+            if not found:
+                continue
+            wanted = {number for _, _, number, _ in found}
+            saved: dict[int, tuple] = {}
+            for number, values in enumerate(ws.iter_rows(values_only=True, max_row=max(wanted)), start=1):
+                if number in wanted:
+                    saved[number] = values
+            for i, j, number, formula in found:
+                row = saved.get(number, ())
+                value = row[j] if j < len(row) else None
+                # text that merely starts with '=' reads the same in both passes: it is not a formula
+                grid.rows[i][1][j] = Cell(value) if value == formula else Cell(value, formula)
+    finally:
+        wb.close()
 
 
 def read_csv(path: Path) -> Grid:

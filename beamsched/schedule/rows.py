@@ -236,7 +236,7 @@ class _Row:
         except cv.CellError as exc:
             self.fail(key, c.value, exc.what, exc.expected)
         except NotationError as exc:
-            self.fail_note(key, c.value, f"unreadable bar notation: {exc}")
+            self.fail_note(key, c.value, f"unreadable bar notation: {_tidy(str(exc), c.value)}")
         return None
 
     def stirrups(self, key: str) -> Stirrups | None:
@@ -251,7 +251,7 @@ class _Row:
         except cv.CellError as exc:
             self.fail(key, c.value, exc.what, exc.expected)
         except NotationError as exc:
-            self.fail_note(key, c.value, f"unreadable stirrup notation: {exc}")
+            self.fail_note(key, c.value, f"unreadable stirrup notation: {_tidy(str(exc), c.value)}")
         return None
 
     # -- defaults ---------------------------------------------------------------------
@@ -270,6 +270,15 @@ class _Row:
             self.assumed.append(f"{words} = {builtin:g} mm assumed (not scheduled, no Parameters value)")
             self.origin[fld] = (f"{words} (assumed)", builtin)
         return builtin
+
+
+def _tidy(message: str, value: object) -> str:
+    """A notation error without the repeats of the value the message already shows."""
+    v = str(value).strip()
+    for lead in (f"cannot read '{v}' in '{v}': ", f"cannot read stirrups '{v}': ", f"'{v}': "):
+        if message.startswith(lead):
+            return message[len(lead):]
+    return message
 
 
 def _show(value: object) -> str:
@@ -321,7 +330,8 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
             if "type" in hdr.index:
                 r.assumed.append("Type blank: rectangular section assumed")
     if shape == "rect" and (hf is not None or bf is not None):
-        r.warnings.append(Problem(f"row {number}: Type is Rect, so the flange sizes given (hf, bf) are ignored",
+        r.warnings.append(Problem(f"row {number}, '{hdr.label('type')}' = {_show(r.cell('type').value if r.cell('type') else 'Rect')}: "
+                                  "a rectangular section, so the flange sizes given (hf, bf) are ignored",
                                   hdr.label("type"), shape, number, "warning"))
         hf = bf = None
     clear_web = r.num("clear_to_next_web", "clear_to_next_web")
@@ -492,6 +502,7 @@ def _relabel(p: Problem, r: _Row) -> Problem:
     head = f"{p.column} = "
     if message.startswith(head) and ": " in message:
         message = message.split(": ", 1)[1]  # the value is shown as the file has it
+    message = message.replace(" a L-beam", " an L-beam")
     return Problem(f"row {r.number}, '{label}' = {_show(raw)}: {message}", label, raw, r.number, p.severity)
 
 
@@ -505,8 +516,9 @@ def _ends(r: _Row, span_no: int | None, pos: SpanPosition) -> tuple[str, str]:
             r.assumed.append(f"Support '{r.cell('support').value}' read as {words}")  # type: ignore[union-attr]
         elif (left or sl, right or sr) != (sl, sr):
             r.warnings.append(Problem(
-                f"row {r.number}: Support '{r.cell('support').value}' ({words}) disagrees with "  # type: ignore[union-attr]
-                f"Left end / Right end ({left or sl}, {right or sr}); the Left end / Right end columns are used",
+                f"row {r.number}, '{r.hdr.label('support')}' = {_show(r.cell('support').value)}: "  # type: ignore[union-attr]
+                f"({words}) disagrees with Left end / Right end ({left or sl}, {right or sr}); "
+                "the Left end / Right end columns are used",
                 r.hdr.label("support"), r.cell("support").value, r.number, "warning"))  # type: ignore[union-attr]
         left, right = left or sl, right or sr
     if left is None or right is None:
