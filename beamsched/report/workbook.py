@@ -422,8 +422,9 @@ class _Writer:
     def working(self) -> None:
         r, f = self.r, self.f
         ws = self.wb.add_worksheet("Working")
-        cols = [("Check", 16), ("At", 6), ("Symbol", 22), ("Value", 12), ("Unit", 7), ("Clause", 14),
+        cols = [("Check", 16), ("At", 6), ("Symbol", 22), ("Value", 14), ("Unit", 8), ("Clause", 16),
                 ("Working (what the value is, how it was found)", 90)]
+        widths = [int(w) for _, w in cols]
         for i, (_, w) in enumerate(cols):
             ws.set_column(i, i, w)
         for i, (head, _) in enumerate(cols):
@@ -481,23 +482,28 @@ class _Writer:
             done: set[tuple] = set()
             for key, lines in groups.items():
                 for t in lines:
+                    text_value = isinstance(t.value, str)
+                    n_lines = max(_lines(t.description, widths[6]), _lines(t.value, widths[3]) if text_value else 1,
+                                  _lines(t.symbol, widths[2]), _lines(t.clause, widths[5]))
+                    if n_lines > 1:
+                        ws.set_row(row, LINE_HEIGHT * min(n_lines, 12))
                     name = labels.get(t.check, t.check.replace("_", " ").capitalize())
                     ws.write_string(row, 0, name, plain)
                     where = LOCATION_WORDS.get(t.location, str(t.location))
                     if where:  # empty cells are left unwritten: the sheet can run to a million rows
                         ws.write_string(row, 1, where, plain)
-                    ws.write_string(row, 2, t.symbol, plain)
+                    ws.write_string(row, 2, t.symbol, wrap)
                     if isinstance(t.value, (int, float)) and not isinstance(t.value, bool):
                         if math.isfinite(t.value):
                             ws.write_number(row, 3, t.value, f.get(num=sig_format(t.value)))
                         else:
                             ws.write_string(row, 3, "∞" if t.value > 0 else "−∞", plain)
                     elif t.value is not None:
-                        ws.write_string(row, 3, str(t.value), plain)
+                        ws.write_string(row, 3, str(t.value), wrap)
                     if t.unit:
                         ws.write_string(row, 4, t.unit, unit_fmt)
                     if t.clause:
-                        ws.write_string(row, 5, t.clause, plain)
+                        ws.write_string(row, 5, t.clause, wrap)
                     ws.write_string(row, 6, t.description, wrap)
                     row += 1
                 for c in results_by_key.get(key, []):
