@@ -360,3 +360,12 @@ def test_vr_grows_as_spacing_shrinks_until_the_cap(fc, fy, vf):
         if e.capped:
             assert e.vr == pytest.approx(crush)
     assert previous <= crush * (1 + 1e-12)
+
+
+def test_spacing_limit_binds_no_unrequired_stirrups():
+    # Vf = 40 kN ≤ Vc without stirrups = 79.95 kN and h ≤ 750: stirrups not required (cl. 11.2.8.1), so
+    # 10M@400 > 0.7 dv = 337.7 mm passes with a note
+    r = span(stirrups="10M@400", Vf=40)
+    c = find(r, "stirrup_spacing@left")
+    assert c.status.value == "pass" and "binds none" in c.message and c.utilisation is None
+    assert find(span(stirrups="10M@400", Vf=90), "stirrup_spacing@left").status.value == "fail"  # 90 > 79.95 kN

@@ -300,7 +300,10 @@ def _min_stirrups(ctx: SpanContext, loc: Location, e: EndShear | str | None, vf:
                         capacity=av, unit="mm²", utilisation=av_min / av))  # type: ignore[operator]
 
 
-def _spacing(ctx: SpanContext, loc: Location, dv: float, vf: float | None) -> None:
+def _spacing(ctx: SpanContext, loc: Location, dv: float, vf: float | None, needed: bool = True) -> None:
+    """``needed``: False where Vf is known and minimum stirrups are not required (Vf ≤ Vc as
+    without stirrups, h ≤ 750 mm): the spacing limits then bind no stirrup, and too wide a
+    spacing passes with a note (the shear check did not rely on the stirrups)."""
     inp, code = ctx.inp, provisions(ctx)
     assert code is not None and inp.stirrups is not None
     cl1, cl3 = ctx.code.clauses["stirrup_spacing"], ctx.code.clauses["stirrup_spacing_high"]
@@ -329,6 +332,12 @@ def _spacing(ctx: SpanContext, loc: Location, dv: float, vf: float | None) -> No
                f"({tight_words}, cl. {cl3}), which applies if Vf > {vhigh / N_PER_KN:.1f} kN; Vf is not scheduled.")
         ctx.add(CheckResult("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", status, msg, demand=s,
                             unit="mm"))
+        return
+    if status is CheckStatus.FAIL and not needed:
+        ctx.add(CheckResult("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", CheckStatus.PASS,
+                            f"s = {s:g} mm exceeds {limit:.0f} mm ({words}, cl. {clause}), but no stirrups are required "
+                            f"{WHERE[loc]} (Vf ≤ Vc without them, h ≤ 750 mm), so the limit binds none here",
+                            demand=s, capacity=limit, unit="mm"))
         return
     if status is CheckStatus.PASS:
         msg = "" if vf is not None else f"s ≤ {tight:.0f} mm, the tighter limit of cl. {cl3}"
@@ -374,6 +383,9 @@ def _long_steel(ctx: SpanContext, loc: Location, e: EndShear | str) -> None:
     if side.face == "bottom":
         anchor = (f"At this simple support the {side.bars} bottom bars must be anchored past the inside face of the "
                   f"support to develop {(ft - side.mf / e.dv) / N_PER_KN:.1f} kN; check their extension or hooks.")
+        if inp.bottom_bars_support is None:
+            anchor += (" All the midspan bottom bars were taken to run into the support; schedule the bottom bars at "
+                       "the supports if fewer do.")
     if u <= 1:
         ctx.add(CheckResult("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.PASS, anchor,
                             demand=ft_k, capacity=cap_k, unit="kN", utilisation=u))
@@ -410,7 +422,9 @@ def run(ctx: SpanContext) -> None:
             _shear(ctx, end, e)
             _min_stirrups(ctx, end, e, vf_at(ctx, end))
             if inp.stirrups is not None and isinstance(e, EndShear):
-                _spacing(ctx, end, e.dv, vf_at(ctx, end))
+                vf = vf_at(ctx, end)
+                needed = vf is None or bool(provisions(ctx).min_stirrups_reasons(vf, e.vc0, inp.h))  # type: ignore[union-attr]
+                _spacing(ctx, end, e.dv, vf, needed)
             _long_steel(ctx, end, e)
     vr = [v for v in (ctx.values.get("Vr_left_kN"), ctx.values.get("Vr_right_kN")) if v is not None]
     if vr:
