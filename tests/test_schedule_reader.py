@@ -255,3 +255,26 @@ def test_input_file_is_not_modified(tmp_path):
     before = (p.read_bytes(), p.stat().st_mtime_ns)
     read_schedule(p)
     assert (p.read_bytes(), p.stat().st_mtime_ns) == before
+
+
+def test_every_problem_of_a_row_is_reported_at_once(tmp_path):
+    # beamsched issue 3: each row becomes a span or the list of its problems
+    bad = row({"Stirrups": "10M@0", "f'c (MPa)": 15, "hf (mm)": 650, "Mf+ (kN·m)": -20})
+    s = write(tmp_path, [bad])
+    (f,) = s.failures
+    assert {p.column for p in f.problems} == {"Stirrups", "f'c (MPa)", "hf (mm)", "Mf+ (kN·m)"}
+    bad = row({"bw (mm)": "wide", "fy (MPa)": 520})
+    (f,) = write(tmp_path, [bad], name="two.xlsx").failures
+    assert {p.column for p in f.problems} == {"bw (mm)", "fy (MPa)"}
+
+
+def test_qty_rect_flanges_and_type_blank(tmp_path):
+    s = write(tmp_path, [row({"Type": "Rect"}), row({"Mark": "B2", "Type": None}), row({"Mark": "B3", "Type": None,
+                                                                                      "hf (mm)": None,
+                                                                                      "bf (mm)": None})])
+    rect, blank_with_flange, blank = s.rows
+    assert rect.shape == "rect" and rect.hf is None and "flange sizes given (hf, bf) are ignored" in \
+        rect.warnings[0].message
+    assert isinstance(blank_with_flange, RowFailure)
+    assert "Type is blank but flange sizes are given" in blank_with_flange.problems[0].message
+    assert blank.shape == "rect" and "Type blank: rectangular section assumed" in blank.assumed

@@ -425,9 +425,14 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
     notes = r.text("notes") or ""
 
     mark_text = mark or ""
-    if r.problems:
+    if bw is None or h is None or fc is None or fy is None or shape is None:
+        if fc is not None and fy is not None:  # the materials can still be judged
+            r.problems += [_relabel(Problem(f"{e.field} = {e.value:g} MPa: expected {e.expected}", e.field, e.value),
+                                    r) for e in code.material_errors(fc, fy, fyt)]
         return RowFailure(mark_text, span_no, number, tuple(r.problems))
-    assert bw is not None and h is not None and fc is not None and fy is not None and shape is not None
+    # The span as read (cells that could not be read are left out), checked by the engine's own
+    # validation, so that every problem of the row is reported at once.
+    density = density or "normal"
     inp = BeamInput(
         mark=mark_text, shape=shape, bw=bw, h=h, fc=fc, fy=fy, span_no=span_no, row=number,  # type: ignore[arg-type]
         qty=qty or 1, hf=hf, bf=bf, clear_to_next_web=clear_web, span=span, clear_span=clear_span,
@@ -441,10 +446,33 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
         Tf=tf, Pf=pf, Ms_pos=ms_pos, Ms_neg=ms_neg, skin_bars=skin, epoxy=epoxy, notes=notes,
         assumed=tuple(r.assumed), warnings=tuple(r.warnings), source=dict(r.source),
     )
-    found = validate(inp, code)
-    if found:
-        return RowFailure(mark_text, span_no, number, tuple(_relabel(p, r) for p in found))
+    found = _validate_all(inp, code, r)
+    if r.problems or found:
+        return RowFailure(mark_text, span_no, number, tuple(r.problems) + tuple(found))
     return inp
+
+
+_REQUIRED_FIELDS = ("bw", "h", "fc", "fy", "shape", "lam")
+
+
+def _validate_all(inp: BeamInput, code: DesignCode, r: _Row) -> list[Problem]:
+    """engine.validate, re-labelled; it stops at its first group of findings, so an optional
+    field it rejects is set aside and the rest validated again, to list every problem."""
+    seen = {p.column for p in r.problems}
+    out: list[Problem] = []
+    for _ in range(4):
+        found = validate(inp, code)
+        if not found:
+            break
+        fields = {_FIELD_OF_LABEL.get(p.column or "", p.column or "") for p in found}
+        new = [q for q in (_relabel(p, r) for p in found) if q.column not in seen]
+        out += new
+        seen |= {q.column for q in new}
+        optional = {f for f in fields if f not in _REQUIRED_FIELDS and hasattr(inp, f)}
+        if not optional or fields & set(_REQUIRED_FIELDS):
+            break
+        inp = dataclasses.replace(inp, **{f: None for f in optional})
+    return out
 
 
 def _cover(r: _Row, key: str, words: str) -> float | None:
