@@ -91,3 +91,20 @@ def test_atomic_path_moves_into_place_with_normal_permissions(tmp_path):
 def test_missing_folder_is_a_clear_error(tmp_path):
     with pytest.raises(OutputError, match="does not exist"):
         write_json(report(), tmp_path / "nowhere" / "r.json")
+
+
+def test_a_failure_while_zipping_the_workbook_is_a_clear_error(tmp_path, monkeypatch):
+    import xlsxwriter
+    from xlsxwriter.exceptions import FileCreateError
+
+    target = tmp_path / "results.xlsx"
+    target.write_bytes(b"previous results")
+
+    def full_disk(self):
+        raise FileCreateError("[Errno 28] No space left on device")
+
+    monkeypatch.setattr(xlsxwriter.Workbook, "close", full_disk)
+    with pytest.raises(OutputError, match="No space left"):
+        write_results(report(), target)
+    assert target.read_bytes() == b"previous results"
+    assert leftovers(tmp_path, {"results.xlsx"}) == []

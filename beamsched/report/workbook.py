@@ -23,7 +23,7 @@ from pathlib import Path
 from .. import CAUTION
 from ..model import BeamInput, BeamStatus, CheckResult, CheckStatus
 from . import palette as P
-from .atomic import atomic_path
+from .atomic import OutputError, atomic_path
 from .policies import policies_for
 from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header, value_unit
 
@@ -642,7 +642,16 @@ class _Writer:
 def write_results(report: Report, path: str | os.PathLike, protected: tuple | list = ()) -> Path:
     """Write the results workbook to ``path`` (whole or not at all)."""
     import xlsxwriter
+    from xlsxwriter.exceptions import XlsxWriterException
 
+    try:
+        _write(report, path, protected, xlsxwriter)
+    except XlsxWriterException as exc:  # e.g. the disk filled while the package was being zipped
+        raise OutputError(f"could not write the results workbook {path}: {exc}; nothing was left at that name") from exc
+    return Path(path)
+
+
+def _write(report: Report, path, protected, xlsxwriter) -> None:
     with atomic_path(path, protected) as tmp:
         wb = xlsxwriter.Workbook(str(tmp), {"constant_memory": True, "strings_to_numbers": False,
                                             "strings_to_formulas": False, "strings_to_urls": False})
@@ -661,4 +670,3 @@ def write_results(report: Report, path: str | os.PathLike, protected: tuple | li
                 wb.close()
             raise
         wb.close()
-    return Path(path)
