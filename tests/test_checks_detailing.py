@@ -60,7 +60,12 @@ def test_the_issue_example_message():
     _, c = fit_result(300, "5-25M")
     assert c.message.startswith("5-25M do not fit in one layer of bw = 300 with 40 mm cover and 10M stirrups (3 fit); "
                                 "schedule them in two layers")
-    assert c.utilisation == pytest.approx(5 / 3)
+    assert c.utilisation == pytest.approx(5 / 3) and (c.demand, c.capacity, c.unit) == (5, 3, "bars")
+
+
+def test_a_full_layer_passes_without_a_utilisation():
+    _, c = fit_result(300, "3-25M")  # exactly 3 fit: a pass, never ranked as the governing check
+    assert c.status.value == "pass" and c.utilisation is None and (c.demand, c.capacity) == (3, 3)
 
 
 def test_mixed_sizes_are_spaced_by_the_larger_bar():

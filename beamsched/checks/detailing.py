@@ -45,15 +45,15 @@ def _layer_fit(ctx: SpanContext, code: DetailingProvisions, face: str, db: float
 
 
 def _face(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str, bars: BarArrangement,
-          name: str) -> tuple[float, list[str], list[str]]:
-    """(worst count/fit, problems, notes) for the bars at one face."""
+          name: str) -> tuple[tuple[float, int, int], list[str], list[str]]:
+    """((worst count/fit, its count, its fit), problems, notes) for the bars at one face."""
     inp, t = ctx.inp, ctx.add_trace
     clause = ctx.code.clauses["bar_spacing"]
     cover = inp.cover_top if face == "top" else inp.cover_bottom
     st = inp.stirrups
     problems: list[str] = []
     notes: list[str] = []
-    worst = 0.0
+    worst: tuple[float, int, int] = (0.0, 0, 0)
     flanged = face == "top" and ctx.flange is not None and inp.shape in ("T", "L")
     previous = None
     for i, layer in enumerate(bars.layers, start=1):
@@ -77,7 +77,7 @@ def _face(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str,
             t("bar_fit", loc, f"flange {tag}", sides * per_side, "bars", ctx.flange.clause,  # type: ignore[union-attr]
               f"more at {fit.pitch:.1f} mm across the effective overhang {ctx.flange.overhang:.0f} mm"  # type: ignore[union-attr]
               f" ({'each side' if sides == 2 else 'one side'})")
-        worst = max(worst, layer.count / capacity if capacity > 0 else math.inf)
+        worst = max(worst, (layer.count / capacity if capacity > 0 else math.inf, layer.count, capacity))
         stirrup_words = f"{st.bar.size} stirrups" if st else "no stirrups"
         where = f"one layer of bw = {inp.bw:g} with {cover:g} mm cover and {stirrup_words}"
         if layer.count > capacity:
@@ -105,16 +105,22 @@ def _bar_fit(ctx: SpanContext, code: DetailingProvisions, loc: Location,
     present = [(f, b, n) for f, b, n in faces if b is not None]
     if not present:
         return
-    worst, problems, notes = 0.0, [], []
+    worst: tuple[float, int, int] = (0.0, 0, 0)
+    problems: list[str] = []
+    notes: list[str] = []
     for face, bars, name in present:
         w, p, n = _face(ctx, code, loc, face, bars, name)  # type: ignore[arg-type]
         worst, problems, notes = max(worst, w), problems + p, notes + n
+    ratio, count, fit = worst
     if problems:
         msg = "; ".join(problems) + f" (minimum clear spacing: {clause})."
         ctx.add(CheckResult("bar_fit", "Bar fit", loc, clause, CheckStatus.FAIL, msg[0].upper() + msg[1:],
-                            utilisation=worst))
+                            demand=count, capacity=fit, unit="bars", utilisation=max(ratio, 1.0 + 1e-9)))
     else:
-        ctx.add(CheckResult("bar_fit", "Bar fit", loc, clause, CheckStatus.PASS, "; ".join(notes), utilisation=worst))
+        # a full layer (count = fit) is not "near failure" as Mf = Mr is: no utilisation on a pass,
+        # so a fitting layer never ranks as a span's governing check
+        ctx.add(CheckResult("bar_fit", "Bar fit", loc, clause, CheckStatus.PASS, "; ".join(notes),
+                            demand=count, capacity=fit, unit="bars"))
 
 
 def _flange_tension(ctx: SpanContext, loc: Location) -> None:

@@ -66,6 +66,7 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
         else:
             made.append(f"ℓn/h = {ratio:.2f} ≥ {limit:g}")
     flex = ctx.flexure("pos", "mid")
+    deep_ends: list[str] = []
     if isinstance(flex, FlexureCase) and inp.Mf_pos is not None:
         ratio_min = code.deep_shear_span_ratio()
         for end in ("left", "right"):
@@ -78,11 +79,13 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
             t("scope_deep", None, f"a {end}", a, "mm", c_ss, words)
             t("scope_deep", None, f"a/d {end}", a / flex.d, "", c_ss, f"d = {flex.d:.0f} mm (midspan bottom bars)")
             if a / flex.d < ratio_min:
-                reasons.append(f"the shear span at the {end} end, a ≈ {a:.0f} mm ({words}), is {a / flex.d:.2f} d < "
-                               f"{ratio_min:g} d: a deep shear span, designed by strut-and-tie (cl. {c_ss}); sectional "
-                               "shear does not check its ties, nodes and anchorage")
+                deep_ends.append(f"the {end} end (a ≈ {a:.0f} mm = {a / flex.d:.2f} d)")
             else:
                 made.append(f"a/d {end} = {a / flex.d:.2f} ≥ {ratio_min:g}")
+    if deep_ends:
+        reasons.append(f"deep shear span (shear span < {code.deep_shear_span_ratio():g} d; estimate in the trace) at the "
+                       + " and ".join(deep_ends) + f": design by strut-and-tie (cl. {c_ss}); sectional shear does not "
+                       "check its ties, nodes and anchorage")
     if reasons:
         ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
                             "Outside sectional design: " + "; ".join(reasons) + ". beamsched does not check it."))
