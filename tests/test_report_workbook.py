@@ -104,8 +104,9 @@ def test_notes_name_the_clause_and_defaults_are_highlighted(book):
     assert "Cover 40 mm" in assumed.value
     assert assumed.fill.fgColor.rgb == argb(P.ASSUMED.fill)
     assert ws.cell(ok, h["Defaults applied"]).value == "none"
-    understood = ws.cell(bad, h["Understood from the schedule"]).value
+    understood = ws.cell(bad, h["Understood from the schedule (mm, MPa)"]).value
     assert "bottom bars: 3-20M" in understood and "As = 900 mm²" in understood  # 3 × 300 mm², CSA G30.18
+    assert understood.startswith("section: Rect 300 × 500; f'c 30, fy 400, ends simple/simple")
     # the unread row says why
     assert "bw" in ws.cell(row_of(ws, "B3"), h["Notes (clause named)"]).value
 

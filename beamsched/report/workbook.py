@@ -106,7 +106,8 @@ def section_text(inp: BeamInput | None) -> str:
         text += f", bf {inp.bf:g} sched."
     text += f"\nf'c {inp.fc:g}, fy {inp.fy:g}"
     if inp.span is not None:
-        text += f"\nspan {inp.span / 1000:g} m, {inp.left_end}/{inp.right_end}"
+        text += f"\nspan {inp.span / 1000:g} m"
+    text += f", ends {inp.left_end}/{inp.right_end}"
     return text
 
 
@@ -367,7 +368,7 @@ class _Writer:
         cols += [(f"{c.label}\nutilisation", 6.5) for c in r.columns]
         cols += [(value_header(k).replace(" (", "\n("), 7.5) for k in r.capacity_keys]
         n_rotated = len(cols)
-        cols += [("Section\n(mm, MPa)", 17), ("Understood from the schedule", 44),
+        cols += [("Understood from the schedule (mm, MPa)", 48),
                  ("Defaults applied", 34), ("Checks not made", 18), ("Notes (clause named)", 64)]
         for i, (_, w) in enumerate(cols):
             ws.set_column(i, i, w)
@@ -382,9 +383,10 @@ class _Writer:
         for n, x in enumerate(r.rows, start=1):
             res = x.result
             i_sec = n_rotated
-            texts = {i_sec: section_text(res.input), i_sec + 1: understood_text(x),
-                     i_sec + 2: "\n".join(res.assumed) or "none", i_sec + 3: "\n".join(x.not_made),
-                     i_sec + 4: x.note_text}
+            section = section_text(res.input).replace("\n", "; ")
+            understood = "\n".join(t for t in (f"section: {section}" if section else "", understood_text(x)) if t)
+            texts = {i_sec: understood, i_sec + 1: "\n".join(res.assumed) or "none",
+                     i_sec + 2: "\n".join(x.not_made), i_sec + 3: x.note_text}
             lines = max(_lines(t, int(cols[i][1])) for i, t in texts.items())
             ws.set_row(n, LINE_HEIGHT * min(max(lines, 1), 27))
             if res.row is not None:
@@ -407,10 +409,9 @@ class _Writer:
                 elif v is not None:
                     ws.write_string(n, col, str(v), plain)
             ws.write_string(n, i_sec, texts[i_sec], f.get(text_wrap=True, indent=1))
-            ws.write_string(n, i_sec + 1, texts[i_sec + 1], wrap)
-            ws.write_string(n, i_sec + 2, texts[i_sec + 2], f.get(P.ASSUMED, text_wrap=True) if res.assumed else wrap)
+            ws.write_string(n, i_sec + 1, texts[i_sec + 1], f.get(P.ASSUMED, text_wrap=True) if res.assumed else wrap)
+            ws.write_string(n, i_sec + 2, texts[i_sec + 2], wrap)
             ws.write_string(n, i_sec + 3, texts[i_sec + 3], wrap)
-            ws.write_string(n, i_sec + 4, texts[i_sec + 4], wrap)
         last = len(cols) - 1
         ws.freeze_panes(1, 2)
         ws.autofilter(0, 0, max(len(r.rows), 1), last)
