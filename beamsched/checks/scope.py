@@ -83,7 +83,7 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
             else:
                 made.append(f"a/d {end} = {a / flex.d:.2f} ≥ {ratio_min:g}")
     if deep_ends:
-        reasons.append(f"deep shear span (shear span < {code.deep_shear_span_ratio():g} d; estimate in the trace) at the "
+        reasons.append(f"deep shear span (shear span < {code.deep_shear_span_ratio():g} d; estimate in the trace) at "
                        + " and ".join(deep_ends) + f": design by strut-and-tie (cl. {c_ss}); sectional shear does not "
                        "check its ties, nodes and anchorage")
     if reasons:
