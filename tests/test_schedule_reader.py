@@ -278,3 +278,17 @@ def test_qty_rect_flanges_and_type_blank(tmp_path):
     assert isinstance(blank_with_flange, RowFailure)
     assert "Type is blank but flange sizes are given" in blank_with_flange.problems[0].message
     assert blank.shape == "rect" and "Type blank: rectangular section assumed" in blank.assumed
+
+
+def test_a_row_with_only_its_mark_gets_one_clear_problem(tmp_path):
+    s = write(tmp_path, [GOOD, ["LEVEL 3 BEAMS"] + [None] * (len(HEADER) - 1), ["B2"] + GOOD[1:]])
+    (f,) = s.failures
+    (p,) = f.problems
+    assert f.row == 3 and "only the Mark is filled" in p.message and "sub-heading" in p.message
+    assert len(s.spans) == 2
+
+
+def test_a_psi_value_in_an_mpa_column_gets_a_hint(tmp_path):
+    # CSA A23.3-19 cl. 8.5.1: fy at most 500 MPa; 60000 is fy in psi
+    (f,) = write(tmp_path, [row({"fy (MPa)": 60000})]).failures
+    assert "at most 500 MPa" in f.problems[0].message and "'fy (psi)'" in f.problems[0].message

@@ -232,3 +232,37 @@ def match_header(label: object) -> tuple[Column | None, str | None]:
 def is_mark(label: object) -> bool:
     col, _ = match_header(label) if label is not None else (None, None)
     return col is not None and col.key == "mark"
+
+
+FIELDS = {  # column key -> the BeamInput field(s) it fills
+    "mark": "mark", "span_no": "span_no", "qty": "qty", "type": "shape", "bw": "bw", "h": "h", "hf": "hf", "bf": "bf",
+    "clear_to_next_web": "clear_to_next_web", "span": "span", "clear_span": "clear_span",
+    "support": "left_end, right_end", "left_end": "left_end", "right_end": "right_end",
+    "cover": "cover_top, cover_bottom", "cover_top": "cover_top", "cover_bottom": "cover_bottom",
+    "bottom_bars": "bottom_bars", "top_bars": "top_bars_left, top_bars_right", "top_bars_l": "top_bars_left",
+    "top_bars_r": "top_bars_right", "top_bars_mid": "top_bars_mid", "bottom_bars_support": "bottom_bars_support",
+    "stirrups": "stirrups", "skin_bars": "skin_bars", "d": "d_bottom", "d_top": "d_top", "fc": "fc", "fy": "fy",
+    "fyt": "fyt", "agg": "agg", "exposure": "exposure", "density": "density, lam", "precast": "precast",
+    "epoxy": "epoxy", "mf_pos": "Mf_pos", "mf_neg": "Mf_neg_left, Mf_neg_right", "mf_neg_l": "Mf_neg_left",
+    "mf_neg_r": "Mf_neg_right", "mf_pos_l": "Mf_pos_left", "mf_pos_r": "Mf_pos_right", "vf": "Vf_left, Vf_right",
+    "vf_l": "Vf_left", "vf_r": "Vf_right", "tf": "Tf", "pf": "Pf", "ms_pos": "Ms_pos", "ms_neg": "Ms_neg",
+    "sfrs": "sfrs", "notes": "notes",
+}
+UNITS_ACCEPTED = {
+    "length": "mm, m, cm, in, ft", "span": "m, mm, ft, in",
+    "stress": "MPa, N/mm², kPa, psi, ksi", "force": "kN, N, kip, lbf",
+    "moment": "kN·m (kNm, kN-m, kN.m), N·mm, kip-ft (kip·ft, k-ft, ft-kip), kip·in (kip-in, in-kip), lb-ft",
+}
+
+
+def markdown_table() -> str:
+    """The column table for the README: label, unit, what it fills, aliases, units understood."""
+    lines = ["| column (template header) | fills | also read as | units understood |", "|---|---|---|---|"]
+    for c in COLUMNS:
+        aliases = sorted({a for a in c.aliases if norm(a) != norm(c.label)}, key=len)
+        shown = ", ".join(f"`{a}`" for a in aliases[:8]) + (" …" if len(aliases) > 8 else "")
+        units = UNITS_ACCEPTED[c.dimension] if c.dimension else ("mm (spacing) or none" if c.kind == "stirrups"
+                                                                  else "none")
+        choices = f" ({' / '.join(c.choices)})" if c.choices else ""
+        lines.append(f"| `{c.header()}`{choices} | {FIELDS[c.key]} | {shown} | {units} |")
+    return "\n".join(lines)

@@ -9,6 +9,7 @@ column names, so no limit is written twice.
 from __future__ import annotations
 
 import dataclasses
+import re
 from dataclasses import dataclass, field
 
 from ..bars import BarArrangement, NotationError, Stirrups, parse_bars, parse_stirrups
@@ -282,11 +283,14 @@ def _tidy(message: str, value: object) -> str:
 
 
 def _show(value: object) -> str:
+    """A cell value as a message shows it: numbers plain (also from CSV text), text quoted."""
     if isinstance(value, float) and value.is_integer():
         return str(int(value))
     if value is None:
         return "(blank)"
-    return repr(value) if isinstance(value, str) else str(value)
+    if isinstance(value, str):
+        return value.strip() if re.fullmatch(r"\s*[-+]?\d+(\.\d+)?\s*", value) else repr(value)
+    return str(value)
 
 
 @dataclass
@@ -302,6 +306,14 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
                 position: SpanPosition) -> BeamInput | RowFailure:
     """One schedule row -> a BeamInput, or a RowFailure listing every problem found in it."""
     r = _Row(number, cells, hdr, defaults)
+    filled = [k for k in hdr.index if r.has(k)]
+    if filled == ["mark"]:
+        label = hdr.label("mark")
+        value = r.cell("mark").value  # type: ignore[union-attr]
+        return RowFailure(str(value).strip(), None, number, (Problem(
+            f"row {number}, '{label}' = {_show(value)}: only the Mark is filled; expected the span's data (bw, h, "
+            "bars, demands) on the same row — if this row is a sub-heading, move it above the header or delete it",
+            label, value, number),))
     mark = r.text("mark")
     if mark is None and not r.has("mark"):
         r.fail("mark", None, "the Mark is blank", "the beam mark, e.g. 'B12'")
@@ -531,6 +543,8 @@ def _relabel(p: Problem, r: _Row) -> Problem:
     if message.startswith(head) and ": " in message:
         message = message.split(": ", 1)[1]  # the value is shown as the file has it
     message = message.replace(" a L-beam", " an L-beam")
+    if fld in ("fc", "fy", "fyt") and isinstance(p.value, (int, float)) and p.value > 1000:
+        message += "; if the value is in psi, say so in the header, e.g. 'fy (psi)'"
     return Problem(f"row {r.number}, '{label}' = {_show(raw)}: {message}", label, raw, r.number, p.severity)
 
 
