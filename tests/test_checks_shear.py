@@ -369,3 +369,17 @@ def test_spacing_limit_binds_no_unrequired_stirrups():
     c = find(r, "stirrup_spacing@left")
     assert c.status.value == "pass" and "binds none" in c.message and c.utilisation is None
     assert find(span(stirrups="10M@400", Vf=90), "stirrup_spacing@left").status.value == "fail"  # 90 > 79.95 kN
+
+
+@pytest.mark.parametrize("fc, fy, beta, theta, root", [
+    # f'c = 60, fy = 400: simplified, β = 0.18, θ = 35° (cl. 11.3.6.3(a)), √60 = 7.746 < 8
+    (60, 400, 0.18, 35.0, math.sqrt(60)),
+    # fy = 500: general (cl. 11.3.6.4); simple support, Mf = Vf dv, εx = 2 · 150e3 / (2 · 2e5 · 1500) = 5e-4:
+    # β = 0.40 / 1.75 (sze = 300 mm), θ = 29 + 3.5 = 32.5°
+    (30, 500, 0.40 / 1.75, 32.5, math.sqrt(30)),
+])
+def test_boundary_values_by_hand(fc, fy, beta, theta, root):
+    r = span(fc=fc, fy=fy, fyt=400)
+    vc = 0.65 * beta * root * 300 * DV_BASE
+    vs = 0.85 * 200 * 400 * DV_BASE / math.tan(math.radians(theta)) / 250
+    assert find(r, "shear@left").capacity == pytest.approx((vc + vs) / 1e3)
