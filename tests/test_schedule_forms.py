@@ -179,3 +179,28 @@ def test_text_starting_with_equals_is_not_a_formula(tmp_path):
     wb.save(p)
     (b,) = read_schedule(p).spans
     assert b.notes == "= see sketch SK-4"
+
+
+def test_cover_top_and_bottom_split(tmp_path):
+    header = ["Mark", "bw (mm)", "h (mm)", "f'c (MPa)", "fy (MPa)", "Cover (mm)", "Cover top (mm)", "Cover bottom (in)"]
+    s = read_schedule(write_schedule(tmp_path / "c.xlsx", header, [["C1", 300, 600, 30, 400, 40, 30, None],
+                                                                   ["C2", 300, 600, 30, 400, 40, None, 2]]))
+    c1, c2 = s.spans
+    assert (c1.cover_top, c1.cover_bottom) == (30, 40)
+    assert (c2.cover_top, c2.cover_bottom) == (40, pytest.approx(50.8))  # 2 in = 50.8 mm exactly (NIST SP 811)
+
+
+@pytest.mark.skipif(shutil.which("soffice") is None, reason="LibreOffice (soffice) is not installed: it is the "
+                                                            "spreadsheet program used to save a macro-enabled workbook")
+def test_xlsm_saved_by_libreoffice_with_formula_results(tmp_path):
+    src = _formula_book(tmp_path)
+    outdir = tmp_path / "lo"
+    outdir.mkdir()
+    subprocess.run(["soffice", f"-env:UserInstallation=file://{tmp_path / 'lo-profile'}", "--headless",
+                    "--convert-to", "xlsm:Calc MS Excel 2007 VBA XML", "--outdir", str(outdir), str(src)],
+                   check=True, capture_output=True, timeout=180)
+    xlsm = outdir / "formula.xlsm"
+    with zipfile.ZipFile(xlsm) as z:  # a macro-enabled package (ECMA-376 content type)
+        assert b"macroEnabled" in z.read("[Content_Types].xml")
+    s = read_schedule(xlsm)
+    assert [b.mark for b in s.spans] == ["F1", "F2"] and s.spans[0].Mf_pos == pytest.approx(EXPECTED_MF)

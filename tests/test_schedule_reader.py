@@ -19,9 +19,9 @@ from beamsched.schedule.writer import write_schedule
 
 HEADER = ["Mark", "Span no.", "Type", "bw (mm)", "h (mm)", "hf (mm)", "bf (mm)", "Span (m)", "Clear span (m)",
           "Left end", "Right end", "Bottom bars", "Top bars L", "Top bars R", "Stirrups", "f'c (MPa)", "fy (MPa)",
-          "Mf+ (kN·m)", "Mf- L (kN·m)", "Mf- R (kN·m)", "Vf L (kN)", "Vf R (kN)"]
+          "Mf+ (kN·m)", "Mf- L (kN·m)", "Mf- R (kN·m)", "Vf L (kN)", "Vf R (kN)", "d (mm)", "Cover (mm)"]
 GOOD = ["B1", 1, "T", 300, 600, 125, 1500, 7.2, 6.8, "simple", "continuous", "4-25M", "3-20M", "4-25M", "10M@200",
-        30, 400, 250, 60, 300, 210, 240]
+        30, 400, 250, 60, 300, 210, 240, None, 40]
 
 
 def row(changes: dict | None = None) -> list:
@@ -53,6 +53,8 @@ CASES = [
     ("negative h", {"h (mm)": -600}, "h (mm)", ["positive number"]),
     ("hf >= h", {"hf (mm)": 600}, "hf (mm)", ["less than h = 600 mm"]),
     ("bf < bw", {"bf (mm)": 250}, "bf (mm)", ["at least bw = 300 mm"]),
+    ("d >= h", {"d (mm)": 600}, "d (mm)", ["less than h = 600 mm"]),
+    ("negative cover", {"Cover (mm)": -5}, "Cover (mm)", ["zero or more"]),
     ("unknown bar size", {"Bottom bars": "4-28M"}, "Bottom bars", ["unknown bar size '28M'", "25M"]),
     ("unreadable bars", {"Top bars L": "4-25"}, "Top bars L", ["unreadable bar notation", "4-25M"]),
     ("bars as a number", {"Top bars R": 4}, "Top bars R", ["a number, not bar notation"]),
@@ -292,3 +294,9 @@ def test_a_psi_value_in_an_mpa_column_gets_a_hint(tmp_path):
     # CSA A23.3-19 cl. 8.5.1: fy at most 500 MPa; 60000 is fy in psi
     (f,) = write(tmp_path, [row({"fy (MPa)": 60000})]).failures
     assert "at most 500 MPa" in f.problems[0].message and "'fy (psi)'" in f.problems[0].message
+
+
+def test_one_message_per_cell(tmp_path):
+    # 'Cover' feeds both the top and the bottom cover: one bad cell, one message
+    (f,) = write(tmp_path, [row({"Cover (mm)": -5})]).failures
+    assert [p.column for p in f.problems] == ["Cover (mm)"]

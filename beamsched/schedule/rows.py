@@ -477,7 +477,10 @@ def _validate_all(inp: BeamInput, code: DesignCode, r: _Row) -> list[Problem]:
         if not found:
             break
         fields = {_FIELD_OF_LABEL.get(p.column or "", p.column or "") for p in found}
-        new = [q for q in (_relabel(p, r) for p in found) if q.column not in seen]
+        new = []
+        for q in (_relabel(p, r) for p in found):
+            if q.column not in seen and q.message not in {x.message for x in new}:
+                new.append(q)
         out += new
         seen |= {q.column for q in new}
         optional = {f for f in fields if f not in _REQUIRED_FIELDS and hasattr(inp, f)}

@@ -31,11 +31,26 @@ SAMPLE_US_NAME = "wrenfield_level2_beams_us.xlsx"
 
 
 def sample_path(variant: str = "si") -> Path:
-    """The bundled sample schedule ('si', or 'us' for the US-customary header variant)."""
+    """The bundled sample schedule ('si', or 'us' for the US-customary header variant), read
+    from the installed package's data. Where the package is not a plain folder (a zip import),
+    the file is copied once to a temporary folder and that copy is returned."""
     name = {"si": SAMPLE_NAME, "us": SAMPLE_US_NAME}[variant]
     ref = resources.files("beamsched") / "data" / name
-    with resources.as_file(ref) as p:
-        return Path(p)
+    if isinstance(ref, Path):
+        return ref
+    import tempfile
+
+    from .. import __version__
+
+    target = Path(tempfile.gettempdir()) / f"beamsched-{__version__}-data" / name
+    if not target.exists():
+        data = ref.read_bytes()
+
+        def copy(tmp: Path) -> None:
+            tmp.write_bytes(data)
+
+        _atomic(target, copy)
+    return target
 
 
 # -- sizing (rough: the checks, not this, decide) ---------------------------------------------
