@@ -383,3 +383,9 @@ def test_boundary_values_by_hand(fc, fy, beta, theta, root):
     vc = 0.65 * beta * root * 300 * DV_BASE
     vs = 0.85 * 200 * 400 * DV_BASE / math.tan(math.radians(theta)) / 250
     assert find(r, "shear@left").capacity == pytest.approx((vc + vs) / 1e3)
+
+
+def test_negative_vf_is_read_as_its_magnitude():
+    # a shear-diagram sign convention gives the right end a negative Vf; the section carries its size
+    a, b = span(Vf_left=150, Vf_right=-150), span()
+    assert find(a, "shear@right").demand == 150 and find(a, "shear@right").utilisation == find(b, "shear@right").utilisation

@@ -24,6 +24,7 @@ from __future__ import annotations
 from ..codes.base import DetailingProvisions
 from ..model import CheckResult, CheckStatus
 from .context import N_PER_KN, FlexureCase, SpanContext
+from .shear import vf_at
 
 
 def shear_span(mf_pos: float, mf_neg_end: float, vf_end: float, vf_other: float | None,
@@ -70,8 +71,8 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
     if isinstance(flex, FlexureCase) and inp.Mf_pos is not None:
         ratio_min = code.deep_shear_span_ratio()
         for end in ("left", "right"):
-            vf = inp.Vf_left if end == "left" else inp.Vf_right
-            other = inp.Vf_right if end == "left" else inp.Vf_left
+            vf = vf_at(ctx, end)  # magnitudes
+            other = vf_at(ctx, "right" if end == "left" else "left")
             mneg = (inp.Mf_neg_left if end == "left" else inp.Mf_neg_right) or 0.0
             if not vf:
                 continue

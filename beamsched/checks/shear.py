@@ -105,7 +105,10 @@ def provisions(ctx: SpanContext) -> DetailingProvisions | None:
 
 
 def vf_at(ctx: SpanContext, end: End) -> float | None:
-    return ctx.inp.Vf_left if end == "left" else ctx.inp.Vf_right
+    """The magnitude of the scheduled shear at an end (a shear-diagram sign convention often makes
+    the right-hand shear negative; its size is what the section carries)."""
+    v = ctx.inp.Vf_left if end == "left" else ctx.inp.Vf_right
+    return None if v is None else abs(v)
 
 
 def solve_end(ctx: SpanContext, end: End) -> EndShear | str:
