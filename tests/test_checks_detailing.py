@@ -141,3 +141,9 @@ def test_flange_tension_reminder_does_not_block_a_pass():
     assert c.status.value == "not_checked" and not c.required and "10.5.3.1" in c.message
     assert r.status.value == "pass", [x.message for x in r.checks if x.status.value != "pass" and x.required]
     assert math.isfinite(r.utilisation)
+
+
+def test_overfull_lower_layer_of_two():
+    # 4-25M / 2-25M in bw = 300: layer 1 holds 3 (hand layout above), so one bar must move
+    _, c = fit_result(300, "4-25M / 2-25M")
+    assert c.status.value == "fail" and "(layer 1 of the bottom bars)" in c.message and "move 1 to another layer" in c.message

@@ -87,8 +87,12 @@ def _face(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str,
                 n_layers = math.ceil(layer.count / fit.fit)
                 what = f"{layer}" if len(bars.layers) == 1 else f"{layer} (layer {i} of the {name})"
                 extra = f" (with the effective flange, {capacity})" if capacity != fit.fit else ""
-                problems.append(f"{what} do not fit in {where} ({fit.fit} fit{extra}); schedule them in "
-                                f"{NUMBER_WORDS.get(n_layers, str(n_layers))} layers or use fewer, larger bars")
+                if len(bars.layers) == 1:
+                    fix = f"schedule them in {NUMBER_WORDS.get(n_layers, str(n_layers))} layers or use fewer, larger bars"
+                else:
+                    fix = (f"move {layer.count - capacity} to another layer (no layer may hold more than the one "
+                           "below it) or use fewer, larger bars")
+                problems.append(f"{what} do not fit in {where} ({fit.fit} fit{extra}); {fix}")
         elif in_flange > 0:
             notes.append(f"{in_flange} of the {layer} ({name}) do not fit within the web ({fit.fit} fit) and extend "
                          f"into the flange beside it, at {fit.pitch:.0f} mm centres")
