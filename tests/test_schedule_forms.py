@@ -204,3 +204,20 @@ def test_xlsm_saved_by_libreoffice_with_formula_results(tmp_path):
         assert b"macroEnabled" in z.read("[Content_Types].xml")
     s = read_schedule(xlsm)
     assert [b.mark for b in s.spans] == ["F1", "F2"] and s.spans[0].Mf_pos == pytest.approx(EXPECTED_MF)
+
+
+def test_spans_of_one_beam_that_disagree_at_a_support_are_flagged(tmp_path):
+    # common practice: the top bars over a support run across it, into both spans
+    header = ["Mark", "Span no.", "bw (mm)", "h (mm)", "f'c (MPa)", "fy (MPa)", "Left end", "Right end",
+              "Top bars L", "Top bars R"]
+    rows = [["K7", 1, 300, 600, 30, 400, "simple", "continuous", "2-15M", "4-25M"],
+            ["K7", 2, 300, 600, 30, 400, "simple", "continuous", "3-25M", "4-25M"],
+            ["K7", 4, 300, 600, 30, 400, "continuous", "simple", "4-25M", "2-15M"]]
+    s = read_schedule(write_schedule(tmp_path / "k.xlsx", header, rows))
+    k1, k2, k4 = s.spans
+    assert any("no span 3" in w.message for w in k1.warnings)
+    messages = " | ".join(w.message for w in k2.warnings)
+    assert "continuous at the right of span 1 but simple at the left of span 2" in messages
+    assert "top bars R of span 1 (4-25M) and top bars L of span 2 (3-25M) differ" in messages
+    assert not k4.warnings  # span 3 is missing: nothing to compare across
+    assert all(w.severity == "warning" for w in k2.warnings)

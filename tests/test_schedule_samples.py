@@ -89,7 +89,8 @@ def test_transfer_girder_is_deep_and_never_passes(sample):
 
 
 @pytest.mark.parametrize("mark,span_no,check_id", [
-    ("B3", 3, "flexure_pos"), ("G4", 2, "shear"), ("CT3", 2, "flexure_neg"), ("SP4", 5, "flexure_neg"),
+    ("B3", 3, "flexure_pos"), ("G4", 2, "shear"), ("CT3", 2, "flexure_neg"), ("CT3", 1, "flexure_neg"),
+    ("SP4", 5, "flexure_neg"),
 ])
 def test_overstressed_spans_fail(sample, mark, span_no, check_id):
     _, results = sample
@@ -123,9 +124,11 @@ def test_identical_duplicate_is_a_warning_and_most_good_spans_pass(sample):
     tr2 = [b for b in s.spans if b.mark == "TR2"]
     assert tr2[0].Mf_pos is not None  # its formula's stored result
     statuses = collections.Counter(r.status for r in results.values())
-    # 68 readable spans: 4 overstressed, 1 deep; the rest were sized to pass
+    # 68 readable spans: 5 overstressed, 1 deep; the rest were sized to pass
     assert statuses[BeamStatus.ERROR] == len(s.failures) == 12
-    assert statuses[BeamStatus.PASS] >= 0.8 * (len(s.spans) - 5)
+    assert statuses[BeamStatus.PASS] >= 0.8 * (len(s.spans) - 6)
+    # the sizing gives the same top bars to both sides of each shared support: no continuity warnings
+    assert not [w for b in s.spans for w in b.warnings if "cross the support" in w.message]
 
 
 def test_us_variant_reads_to_the_same_spans(sample):

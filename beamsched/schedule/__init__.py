@@ -149,6 +149,7 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
                            multi=len(set(known)) > 1)
         rows.append(convert_row(number, cells, hdr, defaults, code, pos))
     rows = _duplicates(rows, body, hdr)
+    rows = _continuity(rows, hdr)
     return Schedule(
         path=str(p), sheet=grid.name, header_row=None if is_csv else header_row, rows=tuple(rows),
         problems=tuple(problems), project=dict(defaults.project), code=code.id,
@@ -170,6 +171,47 @@ def _peek_int(cells, i: int | None) -> int | None:
         return int(float(s)) if s is not None else None
     except ValueError:
         return None
+
+
+def _continuity(rows: list[BeamInput | RowFailure], hdr) -> list[BeamInput | RowFailure]:
+    """Spans of one beam that disagree at a shared support (warnings: the drafter should look):
+    one span continuous there and the next not, different top bars over the support (the same
+    bars cross it), or a gap in the span numbers."""
+    out = list(rows)
+    by_mark: dict[str, list[int]] = {}
+    for i, r in enumerate(rows):
+        if r.span_no is not None and r.mark:
+            by_mark.setdefault(r.mark.strip().upper(), []).append(i)
+    for members in by_mark.values():
+        spans = sorted((rows[i].span_no, i) for i in members)
+        numbers = [n for n, _ in spans]
+        if len(set(numbers)) != len(numbers):
+            continue  # duplicates are reported already
+        missing = sorted(set(range(numbers[0], numbers[-1] + 1)) - set(numbers))
+        if missing:
+            i = spans[0][1]
+            out[i] = add_problem(out[i], Problem(
+                f"row {rows[i].row}, '{hdr.label('span_no')}': beam {rows[i].mark} has spans "
+                f"{', '.join(map(str, numbers))}, with no span {', '.join(map(str, missing))}: check for a missing row",
+                hdr.label("span_no"), numbers, rows[i].row, "warning"))
+        for (n1, i), (n2, j) in zip(spans, spans[1:], strict=False):
+            a, b = rows[i], rows[j]
+            if n2 != n1 + 1 or not isinstance(a, BeamInput) or not isinstance(b, BeamInput):
+                continue
+            where = f"the support between span {n1} (row {a.row}) and span {n2} (row {b.row})"
+            if (a.right_end == "continuous") != (b.left_end == "continuous"):
+                msg = (f"row {b.row}: beam {b.mark} is read as {a.right_end} at the right of span {n1} but "
+                       f"{b.left_end} at the left of span {n2}, at {where}: expected the same support condition")
+                out[j] = add_problem(out[j], Problem(msg, hdr.label("left_end") if "left_end" in hdr.index
+                                                     else hdr.label("support"), b.left_end, b.row, "warning"))
+            if a.top_bars_right is not None and b.top_bars_left is not None and \
+                    str(a.top_bars_right) != str(b.top_bars_left):
+                msg = (f"row {b.row}: top bars R of span {n1} ({a.top_bars_right}) and top bars L of span {n2} "
+                       f"({b.top_bars_left}) differ at {where}: the same bars normally cross the support; each span "
+                       "is checked with its own")
+                label = hdr.label("top_bars_l") if "top_bars_l" in hdr.index else hdr.label("top_bars")
+                out[j] = add_problem(out[j], Problem(msg, label, str(b.top_bars_left), b.row, "warning"))
+    return out
 
 
 def _duplicates(rows: list[BeamInput | RowFailure], body, hdr) -> list[BeamInput | RowFailure]:

@@ -86,28 +86,18 @@ def _per_layer(db: float, bw: float, agg: float = 20.0) -> int:
 
 
 def bars_for(as_req: float, bw: float, sizes=("15M", "20M", "25M", "30M", "35M"), min_count: int = 2) -> str:
-    """The lightest one- or two-layer arrangement of one size with area >= as_req."""
-    best: tuple[float, str] | None = None
-    for size in sizes:
-        bar = CATALOGUE[size]
-        fit = _per_layer(bar.db, bw)
-        if fit < 2:
-            continue
-        n = max(min_count, math.ceil(as_req / bar.area))
-        if n <= fit:
-            text = f"{n}-{size}"
-        elif n <= 2 * fit:
-            text = f"{fit}-{size} / {n - fit}-{size}"
-        else:
-            continue
-        area = n * bar.area
-        if best is None or area < best[0] - 1e-9:
-            best = (area, text)
-    if best is None:  # nothing fits: the heaviest arrangement that does (the span will fail its checks)
-        size = max((z for z in sizes if _per_layer(CATALOGUE[z].db, bw) >= 2), key=lambda z: CATALOGUE[z].db)
-        fit = _per_layer(CATALOGUE[size].db, bw)
-        return f"{fit}-{size} / {fit}-{size}"
-    return best[1]
+    """The preferred arrangement with area >= as_req: one layer of one size where it will do,
+    two layers (the upper of at least two bars) only when clearly lighter."""
+    from ..bars import parse_bars
+
+    for text in _ladder(bw, sizes):
+        bars = parse_bars(text)
+        if bars.area >= as_req and bars.count >= min_count:
+            return text
+    # nothing fits: the heaviest arrangement that does (the span will fail its checks)
+    size = max((z for z in sizes if _per_layer(CATALOGUE[z].db, bw) >= 2), key=lambda z: CATALOGUE[z].db)
+    fit = _per_layer(CATALOGUE[size].db, bw)
+    return f"{fit}-{size} / {fit}-{size}"
 
 
 def d_of(h: float, db: float = 25.2) -> float:
@@ -126,7 +116,8 @@ def stirrups_for(vf_kn: float, bw: float, h: float, d: float, fc: float = FC, fy
         need = vf_kn * KN * 1.05 - vc
         s_strength = math.inf if need <= 0 else PHI_S * av * fyt * dv / math.tan(math.radians(35)) / need
         s = min(s_max, s_min_steel, s_strength)
-        s = math.floor(s / 25.0) * 25.0
+        step = 50.0 if s >= 200 else 25.0  # spacings as detailers write them
+        s = math.floor(s / step) * step
         if s >= 100:
             return f"{size}@{s:g}" if legs == 2 else f"{legs}L-{size}@{s:g}"
     return "4L-15M@100"
@@ -195,8 +186,11 @@ def _ladder(bw: float, sizes=("15M", "20M", "25M", "30M", "35M")) -> list[str]:
         bar = CATALOGUE[size]
         fit = _per_layer(bar.db, bw)
         for n in range(2, 2 * fit + 1):
+            if n > fit and n - fit < 2:
+                continue  # a second layer of one bar: not how bars are detailed
             text = f"{n}-{size}" if n <= fit else f"{fit}-{size} / {n - fit}-{size}"
-            out.append((n * bar.area, n > fit, text))
+            # a second layer costs placing and depth: take it only when clearly lighter
+            out.append((n * bar.area * (1.25 if n > fit else 1.0), n * bar.area, text))
     return [t for _, _, t in sorted(out)]
 
 
@@ -204,7 +198,7 @@ def _bigger(current: str | None, bw: float, sizes=("15M", "20M", "25M", "30M", "
     from ..bars import parse_bars
 
     area = parse_bars(current).area if current else 0.0
-    for text in _ladder(bw, sizes):
+    for text in _ladder(bw, sizes):  # the first (preferred) arrangement heavier than the current one
         if parse_bars(text).area > area + 1e-9:
             return text
     raise ValueError(f"no heavier arrangement than {current} fits in bw = {bw:g} mm")
@@ -434,7 +428,36 @@ def floor_spans() -> list[dict]:
     for s in spans:
         size_span(s)
         settle(s)
+    _same_bars_over_supports(spans)
     return spans
+
+
+def _same_bars_over_supports(spans: list[dict]) -> None:
+    """The top bars over a support shared by two spans of one beam are the same bars: give both
+    spans the heavier of their two arrangements, then settle again."""
+    from ..bars import parse_bars
+
+    for _ in range(3):
+        changed = False
+        by_mark: dict[str, list[dict]] = {}
+        for s in spans:
+            if s.get("span_no") is not None:
+                by_mark.setdefault(s["mark"], []).append(s)
+        for run in by_mark.values():
+            run.sort(key=lambda x: x["span_no"])
+            for a, b in zip(run, run[1:], strict=False):
+                ta, tb = a["top_bars_r"], b["top_bars_l"]
+                if ta == tb:
+                    continue
+                heavier = ta if parse_bars(ta).area >= parse_bars(tb).area else tb
+                if a["bw"] != b["bw"]:
+                    continue
+                a["top_bars_r"] = b["top_bars_l"] = heavier
+                settle(a)
+                settle(b)
+                changed = True
+        if not changed:
+            return
 
 
 def _overstress(spans: list[dict]) -> None:
@@ -452,9 +475,14 @@ def _overstress(spans: list[dict]) -> None:
     s["notes"] = "rooftop unit moved over this girder"
     s["_role"] = "over"
     s = find("CT3", 2)
-    s["mf_neg_l"] = round(s["mf_neg_l"] * 1.9)
+    s["mf_neg_l"] = round(s["mf_neg_l"] * 2.2)
+    s["vf_l"] = round(s["vf_l"] * 1.6)
     s["notes"] = "deep soil planters at the tip"
     s["_role"] = "over"
+    back = find("CT3", 1)  # the same moment at the back-span's end over the same support
+    back["mf_neg_r"] = s["mf_neg_l"]
+    back["notes"] = "planters on the cantilever CT3 span 2"
+    back["_role"] = "over"
     s = find("SP4", 5)
     s["top_bars_r"] = "2-15M"
     s["_role"] = "over"
