@@ -90,3 +90,15 @@ def test_code_without_shear_provisions_cannot_pass():
     c = find(r, "shear")
     assert c.status.value == "not_checked" and "no shear provisions" in c.message
     assert r.status.value == "incomplete"
+
+
+def test_min_stirrups_unknown_when_vc_is_unknown():
+    # no bottom bars: d, dv and so Vc are unknown, so whether stirrups are required (Vf > Vc) is unknown
+    r = span(bottom=None, top="3-20M", stirrups=None, Mf_pos=None)
+    c = find(r, "min_stirrups@left")
+    assert c.status.value == "not_checked" and "no bottom bars scheduled" in c.message
+    assert "not required" not in c.message
+    # with stirrups at least Av,min it is satisfied whatever Vc is
+    r2 = span(bottom=None, top="3-20M", Mf_pos=None)
+    assert find(r2, "min_stirrups@left").status.value == "pass"
+    assert "whether or not" in find(r2, "min_stirrups@left").message

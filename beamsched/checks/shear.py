@@ -65,7 +65,8 @@ def tension_side(ctx: SpanContext, end: End) -> TensionSide:
     mf_pos = inp.Mf_pos_left if end == "left" else inp.Mf_pos_right
     bars, name = inp.bottom_bars_support, "bottom bars at the supports (simple support)"
     if bars is None:
-        bars, name = inp.bottom_bars, "bottom bars, taken to run into the simple support"
+        bars = inp.bottom_bars
+        name = "bottom bars (taken to run into the simple support)" if bars is not None else "bottom bars"
     if mf_pos is None:
         return TensionSide("bottom", bars, name, 0.0, "no moment at the face of a simple support (statics)")
     return TensionSide("bottom", bars, name, mf_pos, f"Mf+ {end[0].upper()} (sagging at the support)")
@@ -270,15 +271,16 @@ def _min_stirrups(ctx: SpanContext, loc: Location, e: EndShear | str | None, vf:
         t("min_stirrups", loc, "Av", av, "mm²", cl_a, f"{st}")
         t("min_stirrups", loc, "Av,min", av_min, "mm²", cl_a, f"at s = {st.spacing:g} mm")
     satisfied = st is not None and av >= av_min * (1 - 1e-12)  # type: ignore[operator]
+    known = vf is not None and isinstance(e, EndShear)  # Vf and Vc both known: (a) can be decided
     if not reasons:
-        if vf is None and not satisfied:
+        if not known and not satisfied:
             why = e if isinstance(e, str) else "Vf is not scheduled"
             ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.NOT_CHECKED,
                                 f"Whether minimum stirrups are required {WHERE[loc]} is unknown: {why} "
                                 f"(cl. {cl}: required where Vf > Vc).", unit="mm²"))
             return
         msg = (f"Minimum stirrups are not required {WHERE[loc]} (cl. {cl}): Vf ≤ Vc and h ≤ 750 mm"
-               if vf is not None else f"Av ≥ Av,min {WHERE[loc]} (cl. {cl_a}), whether or not they are required")
+               if known else f"Av ≥ Av,min {WHERE[loc]} (cl. {cl_a}), whether or not they are required")
         ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.PASS, msg,
                             demand=av_min, capacity=av if st else None, unit="mm²"))
         return
