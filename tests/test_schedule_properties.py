@@ -6,6 +6,8 @@ Factors: NIST SP 811 (2008) Appendix B.8, quoted from memory to 7 digits (1 in =
 
 from __future__ import annotations
 
+import dataclasses
+
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
@@ -35,3 +37,31 @@ def test_any_header_unit_gives_the_same_engine_value(tmp_path_factory, bw, span,
     for k, v in values.items():
         # pint's factors against the 7-digit published ones: agree to 5e-7
         assert abs(got[k] - v) <= 5e-7 * abs(v) + 1e-9, (k, units[k], got[k], v)
+
+
+HEADER = ["Mark", "Span no.", "Type", "bw (mm)", "h (mm)", "hf (mm)", "Span (m)", "Bottom bars", "Top bars",
+          "Stirrups", "f'c (MPa)", "fy (MPa)", "Mf+ (kN·m)", "Mf- (kN·m)", "Vf (kN)", "Left end", "Right end"]
+ROWS = [["P1", 1, "T", 300, 600, 150, 7.2, "4-25M", "4-25M", "10M@200", 30, 400, 220, 260, 210, "simple",
+         "continuous"],
+        ["P1", 2, "T", 300, 600, 150, 7.2, "4-25M", "4-25M", "10M@200", 30, 400, 200, 260, 210, "continuous",
+         "simple"],
+        ["P2", None, "Rect", 250, 450, None, 4.2, "3-20M", "2-15M", "10M@200", 30, 400, 70, None, 65, "simple",
+         "simple"]]
+
+
+@settings(max_examples=20, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(title_rows=st.integers(0, 29), order=st.permutations(range(len(HEADER))),
+       blank_after=st.sampled_from([None, 0, 1]))
+def test_header_anywhere_in_the_first_30_rows_and_any_column_order(tmp_path_factory, title_rows, order, blank_after):
+    # beamsched issue 3: the header is the first row within the first 30 holding a Mark cell
+    title = [[f"title line {i}"] if i % 3 else [] for i in range(title_rows)]
+    rows = [list(r) for r in ROWS]
+    if blank_after is not None:
+        rows.insert(blank_after + 1, [None] * len(HEADER))
+    path = write_schedule(tmp_path_factory.mktemp("h") / "h.xlsx", [HEADER[i] for i in order],
+                          [[r[i] for i in order] for r in rows], title=title)
+    s = read_schedule(path)
+    base = read_schedule(write_schedule(tmp_path_factory.mktemp("b") / "b.xlsx", HEADER, ROWS))
+    assert s.header_row == title_rows + 1
+    strip = [dataclasses.replace(b, row=None) for b in s.spans]
+    assert strip == [dataclasses.replace(b, row=None) for b in base.spans]

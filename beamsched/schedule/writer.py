@@ -61,10 +61,18 @@ def write_schedule(
         for t in title:
             ws.append(list(t))
         ws.append(list(header))
-        for cell in ws[ws.max_row]:
+        header_row = ws.max_row
+        for cell in ws[header_row]:
             cell.font = Font(bold=True)
         for r in rows:
             ws.append(list(r))
+        from openpyxl.utils import get_column_letter
+
+        for i, label in enumerate(header, start=1):
+            longest = max([len(str(label))] + [len(str(r[i - 1])) for r in rows[:200] if i - 1 < len(r) and
+                                               r[i - 1] is not None])
+            ws.column_dimensions[get_column_letter(i)].width = min(max(8, longest + 2), 40)
+        ws.freeze_panes = ws.cell(row=header_row + 1, column=2)
         if parameters is not None:
             ps = wb.create_sheet("Parameters")
             ps.append(["Name", "Value", "Unit"])
