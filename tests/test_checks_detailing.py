@@ -13,6 +13,8 @@ from __future__ import annotations
 import math
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from beamsched import check_span
 from beamsched.bars import parse_bars
@@ -147,3 +149,18 @@ def test_overfull_lower_layer_of_two():
     # 4-25M / 2-25M in bw = 300: layer 1 holds 3 (hand layout above), so one bar must move
     _, c = fit_result(300, "4-25M / 2-25M")
     assert c.status.value == "fail" and "(layer 1 of the bottom bars)" in c.message and "move 1 to another layer" in c.message
+
+
+@settings(max_examples=200, deadline=None)
+@given(bw=st.floats(150, 1500), cover=st.floats(20, 75), ds=st.sampled_from([0.0, 11.3, 16.0, 19.5]),
+       db=st.sampled_from([11.3, 16.0, 19.5, 25.2, 29.9, 35.7, 43.7, 56.4]), agg=st.floats(10, 40))
+def test_fit_is_the_largest_count_that_fits(bw, cover, ds, db, agg):
+    # geometry: n bars fit when (n - 1) pitches fit between the corner-bar centres; n + 1 do not
+    bend = CODE.stirrup_bend_diameter(ds)[0] if ds else 0.0
+    clear = CODE.bar_clear_spacing(db, agg)
+    f = bars_per_layer(bw, cover, ds, bend, db, clear)
+    if f.span >= 0:
+        assert (f.fit - 1) * f.pitch <= f.span + 1e-6 < f.fit * f.pitch
+        assert f.pitch - db >= max(1.4 * db, 1.4 * agg, 30.0) - 1e-9  # A23.1 6.6.5.2
+    wider = bars_per_layer(bw + 100, cover, ds, bend, db, clear)
+    assert wider.fit >= f.fit  # monotone in bw

@@ -389,3 +389,10 @@ def test_negative_vf_is_read_as_its_magnitude():
     # a shear-diagram sign convention gives the right end a negative Vf; the section carries its size
     a, b = span(Vf_left=150, Vf_right=-150), span()
     assert find(a, "shear@right").demand == 150 and find(a, "shear@right").utilisation == find(b, "shear@right").utilisation
+
+
+def test_lambda_scales_vc_only():
+    # cl. 11.3.4: Vc = φc λ β √f'c bw dv; Vs has no λ (cl. 11.3.5.1); λ = 0.75 low-density (cl. 8.6.5)
+    a, b = span(lam=1.0), span(lam=0.75)
+    assert b.values["Vc_left_kN"] == pytest.approx(0.75 * a.values["Vc_left_kN"])
+    assert b.values["Vs_left_kN"] == pytest.approx(a.values["Vs_left_kN"])
