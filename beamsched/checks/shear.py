@@ -16,7 +16,10 @@ The section at each end:
 Policy (``required``): all four are required. A blank Vf is never read as zero: with no Vf at
 either end one ``not_checked`` result per check stands for the whole span (location None);
 with Vf at one end only, the other end is ``not_checked``. Where minimum stirrups are not
-required, ``min_stirrups`` passes with a note and no utilisation.
+required, ``min_stirrups`` passes with a note and no utilisation, and the spacing limits bind
+no stirrup (too wide a spacing passes with a note). A negative Vf is read as its magnitude.
+In ``long_steel_shear`` Vs is not taken greater than Vf; at a simple support the note says the
+bottom bars must be anchored past the face (development is not checked).
 """
 
 from __future__ import annotations
