@@ -66,6 +66,7 @@ def check_span(
     Vf_right: float | None = None,
     Tf: float | None = None,
     Pf: float | None = None,
+    skin_bars: str | BarArrangement | None = None,
     code: DesignCode | str | None = None,
     **rest,
 ) -> BeamResult:
@@ -89,7 +90,7 @@ def check_span(
         Mf_pos_left=_scale(Mf_pos_left, KNM), Mf_pos_right=_scale(Mf_pos_right, KNM),
         Vf_left=_scale(Vf_left if Vf_left is not None else Vf, KN),
         Vf_right=_scale(Vf_right if Vf_right is not None else Vf, KN),
-        Tf=_scale(Tf, KNM), Pf=_scale(Pf, KN), **rest,
+        Tf=_scale(Tf, KNM), Pf=_scale(Pf, KN), skin_bars=_bars(skin_bars), **rest,
     )
     result = check_beam(inp, code)
     if result.status is BeamStatus.ERROR:
