@@ -221,3 +221,24 @@ def test_spans_of_one_beam_that_disagree_at_a_support_are_flagged(tmp_path):
     assert "top bars R of span 1 (4-25M) and top bars L of span 2 (3-25M) differ" in messages
     assert not k4.warnings  # span 3 is missing: nothing to compare across
     assert all(w.severity == "warning" for w in k2.warnings)
+
+
+def test_two_row_header_with_merged_headings_over_l_and_r(tmp_path):
+    import openpyxl
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.append(["Level 5 beams"])
+    ws.append(["Mark", "bw (mm)", "h (mm)", "f'c (MPa)", "fy (MPa)", "Top bars", None, "Mf- (kN·m)", None, "Vf (kN)",
+               None])
+    ws.append([None, None, None, None, None, "L", "R", "L", "R", "L", "R"])
+    ws.append(["D1", 300, 600, 30, 400, "3-20M", "4-25M", 80, 300, 150, 220])
+    for cols in ("F2:G2", "H2:I2", "J2:K2"):
+        ws.merge_cells(cols)
+    p = tmp_path / "two_rows.xlsx"
+    wb.save(p)
+    s = read_schedule(p)
+    assert s.columns["mf_neg_l"] == "Mf- L (kN·m)" and s.columns["top_bars_r"] == "Top bars R"
+    (b,) = s.spans
+    assert b.row == 4 and (b.Mf_neg_left, b.Mf_neg_right, b.Vf_left, b.Vf_right) == (80e6, 300e6, 150e3, 220e3)
+    assert (str(b.top_bars_left), str(b.top_bars_right)) == ("3-20M", "4-25M")

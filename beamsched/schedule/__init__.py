@@ -16,7 +16,7 @@ from pathlib import Path
 from ..codes import DEFAULT_CODE, get_code
 from ..model import BeamInput, Problem, RowFailure, Schedule
 from .cells import Grid, ScheduleError, read_csv, read_workbook
-from .columns import BY_KEY, COLUMNS, norm
+from .columns import BY_KEY, COLUMNS, join_subheader, norm
 from .parameters import PARAMETERS_SHEET_NAMES, Defaults, read_parameters
 from .rows import (
     DEFAULT_AGG,
@@ -121,6 +121,11 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
                             f"does not check ({exc.args[0].split(': ', 1)[-1]})") from exc
 
     header_row, header_cells = grid.rows[header_at]
+    body_at = header_at + 1
+    if body_at < len(grid.rows) and grid.rows[body_at][0] == header_row + 1:
+        joined = join_subheader(header_cells, grid.rows[body_at][1])
+        if joined is not None:
+            header_cells, body_at = joined, body_at + 1
     hdr = read_header(header_cells, header_row, defaults, csv=is_csv)
     problems: list[Problem] = list(defaults.problems) + hdr.problems
     for key, words in (("bw", "the web width bw"), ("h", "the overall depth h")):
@@ -133,7 +138,7 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
                                     f"sheet gives no {BY_KEY[key].label}: every span needs one",
                                     BY_KEY[key].header(), None, header_row))
 
-    body = grid.rows[header_at + 1:]
+    body = grid.rows[body_at:]
     # Span positions within each beam, for the Support shorthand.
     spans_of: dict[str, list[int]] = {}
     mark_i, span_i = hdr.index["mark"], hdr.index.get("span_no")

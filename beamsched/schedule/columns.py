@@ -229,6 +229,38 @@ def match_header(label: object) -> tuple[Column | None, str | None]:
     return None, None
 
 
+_SUB = frozenset(norm(x) for x in ("L", "R", "left", "right", "(L)", "(R)", "mid", "midspan", "at midspan",
+                                   "support", "at support", "supports", "top", "bottom", "+", "-"))
+
+
+def join_subheader(header: list, sub: list) -> list | None:
+    """A header written on two rows — a heading over its L / R (or mid / support) sub-columns,
+    often merged across them — as one row of labels: ``Mf- (kN·m)`` over ``L`` and ``R`` reads
+    as ``Mf- L (kN·m)`` and ``Mf- R (kN·m)``. None when ``sub`` is not such a row (it is data)."""
+    from .cells import Cell
+
+    texts = [c.value if isinstance(c.value, str) else None for c in sub]
+    filled = [i for i, c in enumerate(sub) if not c.blank]
+    if not filled or any(texts[i] is None or norm(texts[i]) not in _SUB for i in filled):
+        return None
+    out = list(header) + [Cell(None)] * max(0, len(sub) - len(header))
+    above = None
+    for i in range(len(out)):
+        top = out[i].value if not out[i].blank else None
+        if top is not None:
+            above = str(top).strip()
+        part = texts[i].strip() if i < len(texts) and texts[i] else None
+        if part is None:
+            continue
+        base = str(top).strip() if top is not None else above
+        if base is None:
+            return None
+        m = _BRACKET.match(base)
+        label = f"{m.group(1)} {part} ({m.group(2)})" if m else f"{base} {part}"
+        out[i] = Cell(label)
+    return out
+
+
 def is_mark(label: object) -> bool:
     col, _ = match_header(label) if label is not None else (None, None)
     return col is not None and col.key == "mark"
