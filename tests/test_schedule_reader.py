@@ -8,6 +8,7 @@ beamsched.bars).
 
 from __future__ import annotations
 
+import datetime
 import random
 
 import pytest
@@ -72,6 +73,9 @@ CASES = [
     ("clear span over span", {"Clear span (m)": 7.5}, "Clear span (m)", ["no more than the span"]),
     ("span no. not whole", {"Span no.": 1.5}, "Span no.", ["whole"]),
     ("excel error value", {"Vf L (kN)": "#DIV/0!"}, "Vf L (kN)", ["error #DIV/0!"]),
+    # a spreadsheet turns '4-25' typed into a cell into the 4th of a month
+    ("date in a bar column", {"Top bars R": datetime.datetime(2026, 4, 25)}, "Top bars R", ["a date", "as Text"]),
+    ("date in a number column", {"Span (m)": datetime.datetime(2026, 7, 2)}, "Span (m)", ["a date"]),
 ]
 
 
