@@ -242,3 +242,21 @@ def test_two_row_header_with_merged_headings_over_l_and_r(tmp_path):
     (b,) = s.spans
     assert b.row == 4 and (b.Mf_neg_left, b.Mf_neg_right, b.Vf_left, b.Vf_right) == (80e6, 300e6, 150e3, 220e3)
     assert (str(b.top_bars_left), str(b.top_bars_right)) == ("3-20M", "4-25M")
+
+
+def test_hidden_rows_are_checked_and_listed_and_other_schedule_sheets_named(tmp_path):
+    import openpyxl
+
+    p = write_schedule(tmp_path / "hid.xlsx", HEADER_F, [["H1", 300, 600, 30, 400, 6, 150, "4-25M"],
+                                                         ["H2", 300, 600, 30, 400, 6, 150, "4-25M"]])
+    wb = openpyxl.load_workbook(p)
+    wb.active.row_dimensions[3].hidden = True
+    other = wb.create_sheet("Level 6")
+    other.append(HEADER_F)
+    wb.save(p)
+    s = read_schedule(p)
+    assert [b.mark for b in s.spans] == ["H1", "H2"]  # the hidden row is still checked
+    words = " | ".join(x.message for x in s.problems)
+    assert "row 3 is hidden in the workbook; it is read and checked" in words
+    assert "'Level 6' also holds a schedule" in words
+    assert all(x.severity == "warning" for x in s.problems)

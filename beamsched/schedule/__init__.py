@@ -111,6 +111,15 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
     else:
         grids = read_workbook(p)
     grid, header_at = _pick_sheet(grids, None if is_csv else sheet, p.name)
+    notes: list[Problem] = []
+    if not is_csv and sheet is None:
+        others = [g.name for g in grids if g is not grid and norm(g.name) not in PARAMETERS_SHEET_NAMES
+                  and g.header_index() is not None]
+        if others:
+            notes.append(Problem(f"sheet '{grid.name}' is read; {', '.join(map(repr, others))} also "
+                                 f"{'holds' if len(others) == 1 else 'hold'} a schedule: check "
+                                 f"{'it' if len(others) == 1 else 'each'} with --sheet", None, others, None,
+                                 "warning"))
     params_grid = None if is_csv else next((g for g in grids if norm(g.name) in PARAMETERS_SHEET_NAMES
                                             and g is not grid), None)
     defaults = read_parameters(params_grid)
@@ -127,7 +136,14 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
         if joined is not None:
             header_cells, body_at = joined, body_at + 1
     hdr = read_header(header_cells, header_row, defaults, csv=is_csv)
-    problems: list[Problem] = list(defaults.problems) + hdr.problems
+    problems: list[Problem] = notes + list(defaults.problems) + hdr.problems
+    hidden = sorted(n for n, _ in grid.rows[body_at:] if n in grid.hidden_rows)
+    if hidden:
+        shown = ", ".join(map(str, hidden[:20])) + (" …" if len(hidden) > 20 else "")
+        one = len(hidden) == 1
+        problems.append(Problem(f"{'row' if one else 'rows'} {shown} {'is' if one else 'are'} hidden in the workbook; "
+                                f"{'it is' if one else 'they are'} read and checked like the others (delete rows "
+                                "that are not part of the schedule)", None, hidden, hidden[0], "warning"))
     for key, words in (("bw", "the web width bw"), ("h", "the overall depth h")):
         if key not in hdr.index:
             problems.append(Problem(f"the schedule has no '{BY_KEY[key].header()}' column: {words} of every "

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import csv
 import io
+import re
 import zipfile
 from dataclasses import dataclass
 from pathlib import Path
@@ -49,6 +50,8 @@ class Grid:
 
     name: str
     rows: list[tuple[int, list[Cell]]]
+    hidden_rows: frozenset[int] = frozenset()  # 1-based rows hidden in the workbook
+    state: str = "visible"  # the sheet's own state: visible, hidden, veryHidden
 
     def header_index(self) -> int | None:
         """Index into ``rows`` of the first row within the first 30 that holds a Mark cell."""
@@ -109,7 +112,8 @@ def read_workbook(path: Path) -> list[Grid]:
                         cells.append(Cell(v))
                 if not all(c.blank for c in cells):
                     rows.append((number, cells))
-            grids.append(Grid(ws.title, rows))
+            grids.append(Grid(ws.title, rows, _hidden_rows(path, getattr(ws, "_worksheet_path", None)),
+                              getattr(ws, "sheet_state", "visible") or "visible"))
             formulas.append(found)
     except Exception as exc:
         raise ScheduleError(f"{path.name} cannot be read as a workbook: {exc}") from exc
@@ -118,6 +122,22 @@ def read_workbook(path: Path) -> list[Grid]:
     if any(formulas):
         _saved_results(path, grids, formulas)
     return grids
+
+
+_HIDDEN_ROW = re.compile(rb'<(?:\w+:)?row\b[^>]*?\br="(\d+)"[^>]*?\bhidden="(?:1|true)"')
+_HIDDEN_ROW_2 = re.compile(rb'<(?:\w+:)?row\b[^>]*?\bhidden="(?:1|true)"[^>]*?\br="(\d+)"')
+
+
+def _hidden_rows(path: Path, member: str | None) -> frozenset[int]:
+    """Rows the workbook hides (a drafter's way of setting rows aside): they are still read."""
+    if not member:
+        return frozenset()
+    try:
+        with zipfile.ZipFile(path) as z:
+            xml = z.read(member.lstrip("/"))
+    except (KeyError, OSError, zipfile.BadZipFile):
+        return frozenset()
+    return frozenset(int(m.group(1)) for rx in (_HIDDEN_ROW, _HIDDEN_ROW_2) for m in rx.finditer(xml))
 
 
 def _saved_results(path: Path, grids: list[Grid], formulas: list[list[tuple[int, int, int, str]]]) -> None:
