@@ -182,11 +182,11 @@ def test_overview_title_block_counts_chart_and_caution(book):
 def test_working_sheet_lets_a_checker_redo_mr(book):
     rep, wb = book
     ws = wb["Working"]
-    assert [c.value for c in ws[1]][:6] == ["Check", "At", "Symbol", "Value", "Unit", "Clause"]
-    rows = list(ws.iter_rows(min_row=2, values_only=True))
-    start = next(i for i, r in enumerate(rows) if r[0] == "B2 span 1")
-    end = next(i for i, r in enumerate(rows) if r[0] == "B3 span 1")
-    block = rows[start:end]
+    assert [c.value for c in ws[1]][:7] == ["Span", "Check", "At", "Symbol", "Value", "Unit", "Clause"]
+    rows = [r[1:] for r in ws.iter_rows(min_row=2, values_only=True) if r[0] == "B2 span 1"]
+    # every row names its span, so a page printed from the middle of the sheet says whose working it is
+    assert rows[0][0] == "FAIL" and len(rows) > 20
+    block = rows[1:]
     sym = {(r[0], r[2]): r for r in block if r[2]}
     # every number needed for the closed form is there with its unit and clause
     assert sym[("Flexure +", "As")][3] == pytest.approx(900) and sym[("Flexure +", "As")][4] == "mm²"
@@ -230,8 +230,9 @@ def test_a_new_check_id_gets_its_own_column(tmp_path):
     assert "Crack control\nutilisation" in h
     assert "z\n(N/mm)" not in h  # not a resistance (Mr, Vr, ...): its value is listed in the working
     working = load_workbook(path)["Working"]
-    listed = [r for r in working.iter_rows(values_only=True) if r[0] == "Result values" and r[2] == "z"]
-    assert listed and listed[0][3] == pytest.approx(36000) and listed[0][4] == "N/mm"
+    listed = [r for r in working.iter_rows(values_only=True) if r[1] == "Result values" and r[3] == "z"]
+    assert listed and listed[0][0] == "B1 span 1"
+    assert listed[0][4] == pytest.approx(36000) and listed[0][5] == "N/mm"
     cell = ws.cell(row_of(ws, "B1"), h["Crack control\nutilisation"])
     assert cell.value == pytest.approx(1.2) and cell.fill.fgColor.rgb == argb(P.BANDS[-1].swatch.fill)
 

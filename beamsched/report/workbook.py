@@ -24,16 +24,23 @@ from .. import CAUTION
 from ..model import BeamInput, BeamStatus, CheckResult, CheckStatus
 from . import palette as P
 from .atomic import OutputError, atomic_path
+from .fit import LINE_HEIGHT, wrapped_lines
 from .policies import policies_for
 from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header, value_unit
 
 SHEETS = ("Overview", "Spans", "Working", "Input problems", "About")
 MAX_ROWS = 1_048_576  # rows in one worksheet (Excel's limit)
-LINE_HEIGHT = 13.0  # points per wrapped line, 10-point Arial (12.75 pt single-spaced, common practice)
 TITLE = "Concrete beam schedule check"
-# Characters of 10-point Arial that fit in one unit of column width (a unit is the width of one
-# digit of the default 11-point font); measured on rendered pages, rounded down.
-CHARS_PER_WIDTH = 1.6
+# The workbook's own default font (the "Normal" style) is the one every cell uses, 10-point Arial.
+# Column widths in a workbook are counted in digits of that font, so with it a spreadsheet
+# application lays the columns out alike whether or not it has the font xlsxwriter would
+# otherwise name (Calibri, which LibreOffice replaces by a wider face where it is missing).
+# 17 px (12.75 pt) is the row height and 64 px the column width that go with 10-point Arial.
+DEFAULT_FONT = {"default_format_properties": {"font_name": "Arial", "font_size": 10},
+                "default_row_height": 17, "default_column_width": 64}
+SHORT_BLOCK = 12  # rows: a span's working no longer than this (a row not read) needs no page of its own
+MAX_PAGE_BREAKS = 1023  # manual page breaks a worksheet keeps (Excel's limit)
+MAX_LINES = 31  # the tallest row a worksheet allows is 409 pt: 31 lines of 10-point Arial
 
 
 class Formats:
@@ -87,12 +94,9 @@ def _hf_escape(text: str) -> str:
     return text.replace("&", "&&")
 
 
-def _lines(text: str, width: int) -> int:
-    """Wrapped lines a text takes in a column `width` characters wide."""
-    if not text:
-        return 1
-    per_line = max(width * CHARS_PER_WIDTH - 2, 1)
-    return sum(max(1, math.ceil(len(part) / per_line)) for part in str(text).split("\n"))
+def _lines(text: str, width: float, bold: bool = False, indent: int = 0) -> int:
+    """Wrapped lines a text takes in a column ``width`` digits wide (10-point Arial)."""
+    return wrapped_lines(text, width, bold, indent)
 
 
 def section_text(inp: BeamInput | None) -> str:
@@ -109,6 +113,18 @@ def section_text(inp: BeamInput | None) -> str:
         text += f"\nspan {inp.span / 1000:g} m"
     text += f", ends {inp.left_end}/{inp.right_end}"
     return text
+
+
+def defaults_text(assumed: tuple[str, ...] | list[str]) -> str:
+    """The defaults a span relied on, for its cell in the results table: those taken from the same
+    source are listed once with it ("f'c = 35 MPa; fy = 400 MPa from the Parameters sheet (row
+    blank)"), so the cell stays short when every span takes its materials from the Parameters."""
+    groups: dict[str, list[str]] = {}
+    for item in assumed:
+        what, sep, source = item.rpartition(" from ")
+        key = f" from {source}" if sep and what else ""
+        groups.setdefault(key, []).append(what if key else item)
+    return "\n".join("; ".join(items) + key for key, items in groups.items())
 
 
 def understood_text(row: SpanRow) -> str:
@@ -284,7 +300,7 @@ class _Writer:
         wrap = f.get(text_wrap=True)
         for x in worst:
             note = x.first_note
-            ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), 6))
+            ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), MAX_LINES))
             ws.write_string(row, 0, x.label, bold)
             if x.result.row is not None:
                 ws.write_number(row, 1, x.result.row, f.get(num="0", align="center"))
@@ -310,7 +326,7 @@ class _Writer:
             for x in incomplete:
                 why = next((c for c in x.result.not_checked if c.required), None)
                 note = x.first_note
-                ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), 6))
+                ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), MAX_LINES))
                 ws.write_string(row, 0, x.label, bold)
                 if x.result.row is not None:
                     ws.write_number(row, 1, x.result.row, f.get(num="0", align="center"))
@@ -385,10 +401,11 @@ class _Writer:
             i_sec = n_rotated
             section = section_text(res.input).replace("\n", "; ")
             understood = "\n".join(t for t in (f"section: {section}" if section else "", understood_text(x)) if t)
-            texts = {i_sec: understood, i_sec + 1: "\n".join(res.assumed) or "none",
+            texts = {i_sec: understood, i_sec + 1: defaults_text(res.assumed) or "none",
                      i_sec + 2: "\n".join(x.not_made), i_sec + 3: x.note_text}
-            lines = max(_lines(t, int(cols[i][1])) for i, t in texts.items())
-            ws.set_row(n, LINE_HEIGHT * min(max(lines, 1), 27))
+            lines = max(_lines(t, cols[i][1], indent=1 if i == i_sec else 0) for i, t in texts.items())
+            lines = max(lines, _lines(x.governing.label if x.governing else "", cols[5][1]))
+            ws.set_row(n, LINE_HEIGHT * min(max(lines, 1), MAX_LINES))
             if res.row is not None:
                 ws.write_number(n, 0, res.row, f.get(num="0", align="center"))
             ws.write_string(n, 1, res.mark, f.get(bold=True))
@@ -418,14 +435,17 @@ class _Writer:
         self.page_setup(ws, 0, last, "Results by span")
         ws.set_paper(3)  # Tabloid (11 × 17 in), the usual office size for schedules (common practice)
         ws.fit_to_pages(1, 0)
+        ws.hide_gridlines(0)  # printed gridlines keep each number apart from the text beside it
 
     # -- Working -----------------------------------------------------------------------
     def working(self) -> None:
         r, f = self.r, self.f
         ws = self.wb.add_worksheet("Working")
-        cols = [("Check", 16), ("At", 6), ("Symbol", 22), ("Value", 14), ("Unit", 8), ("Clause", 16),
-                ("Working (what the value is, how it was found)", 90)]
-        widths = [int(w) for _, w in cols]
+        # The span's label on every row: a printed page taken from the middle of the sheet still
+        # says which span it shows, and a filter on the column picks one span's working.
+        cols = [("Span", 12), ("Check", 20), ("At", 5.5), ("Symbol", 17), ("Value", 14), ("Unit", 8),
+                ("Clause", 13), ("Working (what the value is, how it was found)", 86)]
+        self.w_widths = widths = [w for _, w in cols]
         for i, (_, w) in enumerate(cols):
             ws.set_column(i, i, w)
         for i, (head, _) in enumerate(cols):
@@ -435,44 +455,58 @@ class _Writer:
         plain = f.get()
         labels = {c.id: c.label for c in r.columns}
         unit_fmt = f.get(indent=1)
+        small = f.get(font_color="#404040")
+        breaks: list[int] = []
         row = 1
         for x in r.rows:
             res = x.result
-            if row + 3 + len(res.trace) + len(res.checks) + len(res.problems) + len(res.values) >= MAX_ROWS:
+            size = 3 + len(res.trace) + len(res.checks) + len(res.problems) + len(res.values)
+            if row + size >= MAX_ROWS:
                 ws.write_string(row, 0, f"The working of {len(r.rows) - x.index} more spans, from {x.label} on, "
                                         "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
                                         "batches to see their working.", f.get(bold=True))
                 break
+            if row > 1 and size > SHORT_BLOCK:
+                breaks.append(row)  # each checked span starts a page; a short block (a row not read) runs on
             ws.set_row(row, 18)
             st = P.SPAN_STATUS[res.status]
             ws.write_string(row, 0, x.label, f.get(st.swatch, bold=True, font_size=11))
-            ws.write_string(row, 1, "", f.get(st.swatch))
-            ws.write_string(row, 2, st.word, f.get(st.swatch, bold=True, font_size=11))
-            self.util_cell(ws, row, 3, x.utilisation)
+            ws.write_string(row, 1, st.word, f.get(st.swatch, bold=True, font_size=11))
+            ws.write_string(row, 2, "", f.get(st.swatch))
+            ws.write_string(row, 3, "max. utilisation", f.get(bold=True, align="right"))
+            self.util_cell(ws, row, 4, x.utilisation)
             g = x.governing
             info = f"schedule row {res.row if res.row is not None else '—'}"
             if g is not None:
                 info += f"; governing: {check_display(g)}, utilisation {P.format_utilisation(g.utilisation)}"
-            ws.write_string(row, 6, info, f.get(bold=True))
+            ws.write_string(row, 7, info, f.get(bold=True))
             row += 1
             if res.status is BeamStatus.ERROR or res.problems:
                 for p in res.problems:
-                    ws.write_string(row, 0, "Input", plain)
-                    ws.write_string(row, 2, p.column or "", plain)
-                    ws.write_string(row, 3, "" if p.value is None else str(p.value), plain)
-                    ws.write_string(row, 6, ("Warning: " if p.severity == "warning" else "Not read: ") + p.message, wrap)
+                    text = ("Warning: " if p.severity == "warning" else "Not read: ") + p.message
+                    value = "" if p.value is None else str(p.value)
+                    ws.set_row(row, LINE_HEIGHT * min(max(_lines(text, widths[7]), _lines(value, widths[4]),
+                                                          _lines(p.column or "", widths[3])), MAX_LINES))
+                    ws.write_string(row, 0, x.label, small)
+                    ws.write_string(row, 1, "Input", plain)
+                    ws.write_string(row, 3, p.column or "", wrap)
+                    ws.write_string(row, 4, value, wrap)
+                    ws.write_string(row, 7, text, wrap)
                     row += 1
             for k, v in res.values.items():
                 if v is None:
                     continue
-                ws.write_string(row, 0, "Result values", plain)
-                ws.write_string(row, 2, value_header(k).split(" (")[0], plain)
+                ws.write_string(row, 0, x.label, small)
+                ws.write_string(row, 1, "Result values", plain)
+                ws.write_string(row, 3, value_header(k).split(" (")[0], plain)
                 if isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v):
-                    ws.write_number(row, 3, v, f.get(num=sig_format(v)))
+                    ws.write_number(row, 4, v, f.get(num=sig_format(v)))
                 else:
-                    ws.write_string(row, 3, str(v), plain)
-                ws.write_string(row, 4, value_unit(k), f.get(indent=1))
-                ws.write_string(row, 6, f"{k} (the name in the JSON and CSV results)", f.get(italic=True))
+                    if _lines(str(v), widths[4]) > 1:
+                        ws.set_row(row, LINE_HEIGHT * min(_lines(str(v), widths[4]), MAX_LINES))
+                    ws.write_string(row, 4, str(v), wrap)
+                ws.write_string(row, 5, value_unit(k), unit_fmt)
+                ws.write_string(row, 7, f"{k} (the name in the JSON and CSV results)", f.get(italic=True))
                 row += 1
             groups: dict[tuple, list] = {}
             for t in res.trace:
@@ -484,65 +518,74 @@ class _Writer:
             for key, lines in groups.items():
                 for t in lines:
                     text_value = isinstance(t.value, str)
-                    n_lines = max(_lines(t.description, widths[6]), _lines(t.value, widths[3]) if text_value else 1,
-                                  _lines(t.symbol, widths[2]), _lines(t.clause, widths[5]))
-                    if n_lines > 1:
-                        ws.set_row(row, LINE_HEIGHT * min(n_lines, 12))
                     name = labels.get(t.check, t.check.replace("_", " ").capitalize())
-                    ws.write_string(row, 0, name, plain)
+                    n_lines = max(_lines(t.description, widths[7]), _lines(t.value, widths[4]) if text_value else 1,
+                                  _lines(t.symbol, widths[3]), _lines(t.clause, widths[6]), _lines(name, widths[1]))
+                    if n_lines > 1:
+                        ws.set_row(row, LINE_HEIGHT * min(n_lines, MAX_LINES))
+                    ws.write_string(row, 0, x.label, small)
+                    ws.write_string(row, 1, name, wrap)
                     where = LOCATION_WORDS.get(t.location, str(t.location))
                     if where:  # empty cells are left unwritten: the sheet can run to a million rows
-                        ws.write_string(row, 1, where, plain)
-                    ws.write_string(row, 2, t.symbol, wrap)
+                        ws.write_string(row, 2, where, plain)
+                    ws.write_string(row, 3, t.symbol, wrap)
                     if isinstance(t.value, (int, float)) and not isinstance(t.value, bool):
                         if math.isfinite(t.value):
-                            ws.write_number(row, 3, t.value, f.get(num=sig_format(t.value)))
+                            ws.write_number(row, 4, t.value, f.get(num=sig_format(t.value)))
                         else:
-                            ws.write_string(row, 3, "∞" if t.value > 0 else "−∞", plain)
+                            ws.write_string(row, 4, "∞" if t.value > 0 else "−∞", plain)
                     elif t.value is not None:
-                        ws.write_string(row, 3, str(t.value), wrap)
+                        ws.write_string(row, 4, str(t.value), wrap)
                     if t.unit:
-                        ws.write_string(row, 4, t.unit, unit_fmt)
+                        ws.write_string(row, 5, t.unit, unit_fmt)
                     if t.clause:
-                        ws.write_string(row, 5, t.clause, wrap)
-                    ws.write_string(row, 6, t.description, wrap)
+                        ws.write_string(row, 6, t.clause, wrap)
+                    ws.write_string(row, 7, t.description, wrap)
                     row += 1
                 for c in results_by_key.get(key, []):
-                    row = self._result_row(ws, row, c)
+                    row = self._result_row(ws, row, c, x.label)
                 done.add(key)
             for key, checks in results_by_key.items():
                 if key not in done:
                     for c in checks:
-                        row = self._result_row(ws, row, c)
+                        row = self._result_row(ws, row, c, x.label)
             row += 1
         self.page_setup(ws, 0, len(cols) - 1, "Calculation working")
+        # Tabloid portrait: one page wide at about three quarters of full size (7-point text), and
+        # about 120 rows a page; a span's working takes two or three pages.
         ws.set_portrait()
+        ws.set_paper(3)
+        ws.hide_gridlines(0)  # printed gridlines guide the eye along the long rows
+        ws.set_h_pagebreaks(breaks[:MAX_PAGE_BREAKS])
 
-    def _result_row(self, ws, row: int, c: CheckResult) -> int:
+    def _result_row(self, ws, row: int, c: CheckResult, label: str) -> int:
         f = self.f
+        widths = self.w_widths
         st = P.CHECK_STATUS[c.status]
         text = f"Result: demand {sig_text(c.demand)} against capacity {sig_text(c.capacity)} {c.unit}".rstrip()
         if c.demand is None and c.capacity is None:
             text = "Result"
         if c.message:
             text += ". " + c.message
-        lines = _lines(text, 90)
-        ws.set_row(row, LINE_HEIGHT * min(lines, 10))
-        top = f.get(bold=True, top=1)
-        ws.write_string(row, 0, c.label, top)
-        ws.write_string(row, 1, LOCATION_WORDS[c.location], top)
-        ws.write_string(row, 2, "utilisation", top)
+        lines = max(_lines(text, widths[7], bold=True), _lines(c.clause, widths[6], bold=True),
+                    _lines(c.label, widths[1], bold=True), _lines(st.word, widths[5]))
+        ws.set_row(row, LINE_HEIGHT * min(lines, MAX_LINES))
+        top = f.get(bold=True, top=1, text_wrap=True)
+        ws.write_string(row, 0, label, f.get(top=1, font_color="#404040"))
+        ws.write_string(row, 1, c.label, top)
+        ws.write_string(row, 2, LOCATION_WORDS[c.location], top)
+        ws.write_string(row, 3, "utilisation", top)
         if c.utilisation is None:
-            ws.write_string(row, 3, "—", f.get(align="center", top=1))
+            ws.write_string(row, 4, "—", f.get(align="center", top=1))
         else:
             band = P.band_for(c.utilisation)
             if math.isfinite(c.utilisation):
-                ws.write_number(row, 3, c.utilisation, f.get(band.swatch, "0.000", top=1))
+                ws.write_number(row, 4, c.utilisation, f.get(band.swatch, "0.000", top=1))
             else:
-                ws.write_string(row, 3, "∞", f.get(band.swatch, top=1))
-        ws.write_string(row, 4, st.word, f.get(st.swatch, align="center", top=1))
-        ws.write_string(row, 5, c.clause, top)
-        ws.write_string(row, 6, text, f.get(bold=True, text_wrap=True, top=1))
+                ws.write_string(row, 4, "∞", f.get(band.swatch, top=1))
+        ws.write_string(row, 5, st.word, f.get(st.swatch, align="center", top=1, text_wrap=True))
+        ws.write_string(row, 6, c.clause, top)
+        ws.write_string(row, 7, text, top)
         return row + 1
 
     # -- Input problems ----------------------------------------------------------------
@@ -562,7 +605,9 @@ class _Writer:
             ws.write_string(row, 4, "No problems: every row was read.", f.get(italic=True))
             row += 1
         for rownum, label, p in items:
-            ws.set_row(row, LINE_HEIGHT * min(_lines(p.message, 90), 8))
+            value = "" if p.value is None else str(p.value)
+            lines = max(_lines(p.message, 90), _lines(label, 16), _lines(p.column or "", 20), _lines(value, 20))
+            ws.set_row(row, LINE_HEIGHT * min(lines, MAX_LINES))
             if rownum is not None:
                 ws.write_number(row, 0, rownum, f.get(num="0", align="center"))
             else:
@@ -577,6 +622,7 @@ class _Writer:
         ws.freeze_panes(1, 0)
         ws.autofilter(0, 0, max(row - 1, 1), len(cols) - 1)
         self.page_setup(ws, 0, len(cols) - 1, "Input problems")
+        ws.hide_gridlines(0)
 
     # -- About -------------------------------------------------------------------------
     def about(self) -> None:
@@ -593,7 +639,8 @@ class _Writer:
 
         def put(topic: str, text: str, fmt=None) -> None:
             nonlocal row
-            ws.set_row(row, LINE_HEIGHT * min(_lines(text, 110), 20))
+            ws.set_row(row, LINE_HEIGHT * min(max(_lines(text, 110, bold=fmt is not None),
+                                                  _lines(topic, 30, bold=True)), MAX_LINES))
             ws.write_string(row, 0, topic, bold)
             ws.write_string(row, 1, text, fmt or wrap)
             row += 1
@@ -655,7 +702,8 @@ def write_results(report: Report, path: str | os.PathLike, protected: tuple | li
 def _write(report: Report, path, protected, xlsxwriter) -> None:
     with atomic_path(path, protected) as tmp:
         wb = xlsxwriter.Workbook(str(tmp), {"constant_memory": True, "strings_to_numbers": False,
-                                            "strings_to_formulas": False, "strings_to_urls": False})
+                                            "strings_to_formulas": False, "strings_to_urls": False,
+                                            **DEFAULT_FONT})
         try:
             wb.set_properties({"title": TITLE, "subject": report.schedule.code, "author": "beamsched",
                                "comments": CAUTION})
