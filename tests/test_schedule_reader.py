@@ -304,3 +304,10 @@ def test_one_message_per_cell(tmp_path):
     # 'Cover' feeds both the top and the bottom cover: one bad cell, one message
     (f,) = write(tmp_path, [row({"Cover (mm)": -5})]).failures
     assert [p.column for p in f.problems] == ["Cover (mm)"]
+
+
+def test_inch_pound_bar_sizes_get_a_hint(tmp_path):
+    # bar sizes: CSA G30.18 metric only (beamsched.bars)
+    (f,) = write(tmp_path, [row({"Stirrups": "#3@12", "Bottom bars": "4-#8"})]).failures
+    for p in f.problems:
+        assert "write the CSA G30.18 size" in p.message

@@ -174,3 +174,21 @@ def test_unknown_design_code_stops_the_file(tmp_path):
                        parameters=[["Design code", "Some other standard"]])
     with pytest.raises(ScheduleError, match="design code 'Some other standard'"):
         read_schedule(p)
+
+
+def test_parameter_values_typed_as_text(tmp_path):
+    # a decimal typed as text is a number, not a number and a unit; 1 in = 25.4 mm exactly (NIST SP 811)
+    params = [["Unit system", "US customary"], ["Cover", "1.5"], ["f'c", "5000", "psi"], ["fy", "60 ksi"],
+              ["Max aggregate", "0.75 in"]]
+    s = read_schedule(write_schedule(tmp_path / "t.xlsx", ["Mark", "bw (mm)", "h (mm)"], [["T1", 300, 600]],
+                                     parameters=params))
+    (b,) = s.spans
+    assert b.cover_top == pytest.approx(38.1) and b.agg == pytest.approx(19.05)
+    assert b.fc == pytest.approx(5000 * PSI_KPA / 1000, rel=5e-7) and b.fy == pytest.approx(60 * PSI_KPA, rel=5e-7)
+    assert not [p for p in s.problems if p.severity == "error"]
+
+
+def test_number_messages_name_the_unit_in_words(tmp_path):
+    s = read_schedule(write_schedule(tmp_path / "w.xlsx", ["Mark", "bw (in)", "h (in)", "f'c (psi)", "fy (ksi)"],
+                                     [["W1", 12, '24"', 4000, 60]]))
+    assert "expected a number in inches" in s.failures[0].problems[0].message

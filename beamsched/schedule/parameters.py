@@ -191,8 +191,9 @@ def read_parameters(grid: Grid | None) -> Defaults:
         dim = p.kind
         raw = value_cell.value
         try:
-            if isinstance(raw, str) and split_value_unit(raw) and not unit_text:
-                x, unit_text = split_value_unit(raw)  # type: ignore[misc]
+            pair = split_value_unit(raw) if isinstance(raw, str) and not unit_text else None
+            if pair is not None:
+                x, unit_text = pair
             else:
                 x = cv.number(value_cell, f"a number ({p.unit} or as the Unit column says)")
             if x is None:

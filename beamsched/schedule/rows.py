@@ -171,7 +171,8 @@ class _Row:
             return None
         col = BY_KEY[key]
         unit = self.hdr.units.get(key, "")
-        expected = f"a number in {unit}" if unit else "a number"
+        words = {"in": "inches", "inch": "inches", '"': "inches", "ft": "feet", "'": "feet"}.get(unit.strip(), unit)
+        expected = f"a number in {words}" if unit else "a number"
         try:
             x = cv.number(c, expected)
         except cv.CellError as exc:
@@ -278,7 +279,10 @@ def _tidy(message: str, value: object) -> str:
     v = str(value).strip()
     for lead in (f"cannot read '{v}' in '{v}': ", f"cannot read stirrups '{v}': ", f"'{v}': "):
         if message.startswith(lead):
-            return message[len(lead):]
+            message = message[len(lead):]
+            break
+    if re.search(r"#\s*\d", v):
+        message += " (inch-pound bar sizes such as #4 are not read: write the CSA G30.18 size, e.g. 10M, 15M)"
     return message
 
 

@@ -121,7 +121,7 @@ def unit_factor(unit_text: str, dimension: Dimension) -> float:
 
 def split_value_unit(text: str) -> tuple[float, str] | None:
     """'30 MPa' -> (30.0, 'MPa'); '4000psi' -> (4000.0, 'psi'); None when not of that form."""
-    m = re.match(r"^\s*([-+]?\d+(?:\.\d*)?(?:[eE][-+]?\d+)?)\s*([^\d\s].*?)\s*$", str(text))
+    m = re.match(r"^\s*([-+]?\d+(?:\.\d+)?(?:[eE][-+]?\d+)?)\s*([^\d\s.,].*?)\s*$", str(text))
     if not m:
         return None
     return float(m.group(1)), m.group(2)
