@@ -311,3 +311,15 @@ def test_inch_pound_bar_sizes_get_a_hint(tmp_path):
     (f,) = write(tmp_path, [row({"Stirrups": "#3@12", "Bottom bars": "4-#8"})]).failures
     for p in f.problems:
         assert "write the CSA G30.18 size" in p.message
+
+
+@pytest.mark.parametrize("label,key,unit", [
+    ("Mf+ kN·m", "mf_pos", "kN·m"), ("Span, m", "span", "m"), ("fy ksi", "fy", "ksi"), ("Vf L kip", "vf_l", "kip"),
+    ("Clear\nspan (m)", "clear_span", "m"), ("Mf- L\n(kN·m)", "mf_neg_l", "kN·m"), ("Mf+ foo", None, None),
+    ("Bottom bars mm", None, None),
+])
+def test_units_without_brackets_and_line_breaks_in_headers(label, key, unit):
+    from beamsched.schedule.columns import match_header
+
+    col, u = match_header(label)
+    assert (col.key if col else None, u) == (key, unit)

@@ -206,7 +206,8 @@ for _c in COLUMNS:
 
 MARK_ALIASES = frozenset(norm(a) for a in BY_KEY["mark"].aliases)
 
-_BRACKET = re.compile(r"^(.*?)\s*[\(\[]([^\(\)\[\]]*)[\)\]]\s*$")
+_BRACKET = re.compile(r"^(.*?)\s*[\(\[]([^\(\)\[\]]*)[\)\]]\s*$", re.DOTALL)
+_TRAILING_UNIT = re.compile(r"^(.*?)[\s,]+(\S+)\s*$", re.DOTALL)
 
 
 def match_header(label: object) -> tuple[Column | None, str | None]:
@@ -225,6 +226,15 @@ def match_header(label: object) -> tuple[Column | None, str | None]:
     if m:
         key = _ALIAS.get(norm(m.group(1)))
         if key:
+            return BY_KEY[key], m.group(2).strip()
+    # 'Mf+ kN·m', 'Span, m': a unit written without brackets, taken only if it is a spelling of
+    # a unit beamsched knows and the rest names a dimensioned column
+    m = _TRAILING_UNIT.match(text)
+    if m:
+        from .units import is_known_spelling
+
+        key = _ALIAS.get(norm(m.group(1)))
+        if key and BY_KEY[key].dimension and is_known_spelling(m.group(2)):
             return BY_KEY[key], m.group(2).strip()
     return None, None
 

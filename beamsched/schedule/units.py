@@ -92,7 +92,7 @@ def normalise_system(text: str) -> str | None:
 
 def _pint_expression(unit_text: str) -> str:
     raw = unit_text.strip()
-    key = re.sub(r"\s+", "", raw.lower()).replace("\u2212", "-").replace("\u2013", "-")
+    key = _key(raw)
     if key in _SPELLINGS:
         return _SPELLINGS[key]
     # kN·m-like products with any dot: try the product form of the known pieces.
@@ -100,6 +100,19 @@ def _pint_expression(unit_text: str) -> str:
     if len(pieces) == 2 and all(p in _SPELLINGS for p in pieces):
         return f"{_SPELLINGS[pieces[0]]}*{_SPELLINGS[pieces[1]]}"
     return raw
+
+
+def _key(unit_text: str) -> str:
+    return re.sub(r"\s+", "", unit_text.lower()).replace("\u2212", "-").replace("\u2013", "-")
+
+
+def is_known_spelling(unit_text: str) -> bool:
+    """True for the unit spellings beamsched knows by name (not those it leaves to pint)."""
+    key = _key(unit_text)
+    if key in _SPELLINGS:
+        return True
+    pieces = re.split(r"[·⋅*.\-×]", key)
+    return len(pieces) == 2 and all(p in _SPELLINGS for p in pieces)
 
 
 @lru_cache(maxsize=512)
