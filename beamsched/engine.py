@@ -3,11 +3,14 @@
 from __future__ import annotations
 
 import math
+from collections import OrderedDict
+from collections.abc import Iterator, Sequence
+from typing import overload
 
 from .checks import CHECK_MODULES
 from .checks.context import SpanContext
 from .codes import DesignCode, get_code
-from .model import BeamInput, BeamResult, BeamStatus, Problem, RowFailure, Schedule, beam_status
+from .model import BeamInput, BeamResult, BeamStatus, Problem, RowFailure, Schedule, TraceLine, beam_status
 
 # Field names as the schedule calls them, for messages.
 FIELD_LABELS = {
@@ -106,37 +109,99 @@ def _understood(ctx: SpanContext) -> None:
             " (explicit d, lumped)" if placed and placed[0].lumped else "")
 
 
-def check_beam(inp: BeamInput, code: DesignCode | str | None = None) -> BeamResult:
+class LazyTrace(Sequence[TraceLine]):
+    """The calculation trace of one span, worked out when it is first read.
+
+    A whole schedule's trace is some 200 lines a span: held as objects, 100,000 spans would
+    take gigabytes, and the results workbook shows the working of only the spans that fit on
+    one worksheet. So :func:`check_schedule` keeps, for each span, only what makes its trace
+    (the input and the design code) and this sequence runs :func:`check_beam` again, with the
+    trace, when a writer reads it. The lines are the same as an eager run's: the checks are
+    pure functions of the input and the code (``tests/test_fast_path.py`` compares them).
+    The last few traces read are kept, so reading one span's trace twice costs one run.
+    """
+
+    __slots__ = ("_inp", "_code")
+    _recent: OrderedDict[int, tuple[LazyTrace, tuple[TraceLine, ...]]] = OrderedDict()
+    KEEP = 32  # traces kept after reading (a writer reads a span's trace a few times in a row)
+
+    def __init__(self, inp: BeamInput, code: DesignCode):
+        self._inp = inp
+        self._code = code
+
+    def lines(self) -> tuple[TraceLine, ...]:
+        recent = LazyTrace._recent
+        hit = recent.get(id(self))
+        if hit is not None:  # the entry holds self, so its id cannot have been reused
+            recent.move_to_end(id(self))
+            return hit[1]
+        lines = check_beam(self._inp, self._code).trace
+        recent[id(self)] = (self, lines)  # type: ignore[assignment]
+        if len(recent) > self.KEEP:
+            recent.popitem(last=False)
+        return lines  # type: ignore[return-value]
+
+    def __len__(self) -> int:
+        return len(self.lines())
+
+    @overload
+    def __getitem__(self, i: int) -> TraceLine: ...
+    @overload
+    def __getitem__(self, i: slice) -> tuple[TraceLine, ...]: ...
+    def __getitem__(self, i):
+        return self.lines()[i]
+
+    def __iter__(self) -> Iterator[TraceLine]:
+        return iter(self.lines())
+
+    def __eq__(self, other: object) -> bool:
+        if isinstance(other, Sequence) and not isinstance(other, (str, bytes)):
+            return self.lines() == tuple(other)
+        return NotImplemented
+
+    __hash__ = None  # type: ignore[assignment]
+
+    def __repr__(self) -> str:
+        return f"LazyTrace({self._inp.mark!r}, span {self._inp.span_no})"
+
+
+def check_beam(inp: BeamInput, code: DesignCode | str | None = None, *, lazy_trace: bool = False) -> BeamResult:
     """Check one span against the design code (CSA A23.3-19 by default).
 
     Returns a :class:`BeamResult`; input that the standard does not cover gives a result with
-    status ``error`` and problems naming each field, never a number.
+    status ``error`` and problems naming each field, never a number. With ``lazy_trace`` the
+    checks run without keeping their trace, and the result's ``trace`` is a :class:`LazyTrace`
+    that works it out when read (the same lines).
     """
     code = code if isinstance(code, DesignCode) else get_code(code)
     problems = validate(inp, code)
     if problems:
         return BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR,
                           problems=tuple(problems) + inp.warnings, assumed=inp.assumed, input=inp)
-    ctx = SpanContext(inp, code)
+    ctx = SpanContext(inp, code, tracing=not lazy_trace)
     _understood(ctx)
     for module in CHECK_MODULES:
         module.run(ctx)
     checks = tuple(ctx.results)
     return BeamResult(
         inp.mark, inp.span_no, inp.row, beam_status(checks), checks=checks, values=dict(ctx.values),
-        trace=tuple(ctx.trace), problems=inp.warnings, assumed=inp.assumed,
-        understood=dict(ctx.understood), input=inp,
+        trace=LazyTrace(inp, code) if lazy_trace else tuple(ctx.trace),  # type: ignore[arg-type]
+        problems=inp.warnings, assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
     )
 
 
-def check_schedule(schedule: Schedule, code: DesignCode | str | None = None) -> list[BeamResult]:
+def check_schedule(schedule: Schedule, code: DesignCode | str | None = None, *,
+                   lazy_trace: bool = True) -> list[BeamResult]:
     """Check every row of a schedule, in schedule order; unreadable rows come back as
-    ``error`` results carrying their problems, so nothing is lost."""
+    ``error`` results carrying their problems, so nothing is lost.
+
+    Each result's trace is worked out when it is read (``lazy_trace``, see :class:`LazyTrace`);
+    ``lazy_trace=False`` keeps every trace line from the start."""
     code = code if isinstance(code, DesignCode) else get_code(code or schedule.code)
     out = []
     for row in schedule.rows:
         if isinstance(row, RowFailure):
             out.append(BeamResult(row.mark, row.span_no, row.row, BeamStatus.ERROR, problems=row.problems))
         else:
-            out.append(check_beam(row, code))
+            out.append(check_beam(row, code, lazy_trace=lazy_trace))
     return out

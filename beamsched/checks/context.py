@@ -40,9 +40,15 @@ class FlexureCase:
 
 
 class SpanContext:
-    def __init__(self, inp: BeamInput, code: DesignCode):
+    """``tracing=False`` runs every check without keeping its calculation trace (a whole
+    schedule keeps only results; the trace is worked out again when a writer reads it, see
+    :class:`beamsched.engine.LazyTrace`). The checks make the same numbers either way: trace
+    lines are only ever written, never read back by a check."""
+
+    def __init__(self, inp: BeamInput, code: DesignCode, tracing: bool = True):
         self.inp = inp
         self.code = code
+        self.tracing = tracing
         self.phi_c = code.phi_c(inp.precast)
         self.phi_s = code.phi_s()
         self.block = code.stress_block(inp.fc)
@@ -88,7 +94,8 @@ class SpanContext:
         return place_bars(bars, cover, self.stirrup_db, self.layer_clear, explicit)
 
     def add_trace(self, check: str, location: Location, symbol: str, value, unit: str, clause: str, description: str) -> None:
-        self.trace.append(TraceLine(check, location, symbol, value, unit, clause, description))
+        if self.tracing:
+            self.trace.append(TraceLine(check, location, symbol, value, unit, clause, description))
 
     def add(self, result: CheckResult) -> CheckResult:
         self.results.append(result)

@@ -58,6 +58,8 @@ def utilisation(dem: float, cap: float) -> float:
 
 
 def _trace_case(ctx: SpanContext, cid: str, case: FlexureCase) -> None:
+    if not ctx.tracing:
+        return
     s, inp, cl = case.solution, ctx.inp, ctx.code.clauses
     loc = case.location
     t = ctx.add_trace

@@ -165,6 +165,8 @@ def solve_end(ctx: SpanContext, end: End) -> EndShear | str:
 
 
 def _trace(ctx: SpanContext, e: EndShear) -> None:
+    if not ctx.tracing:
+        return
     inp, cl = ctx.inp, ctx.code.clauses
     loc, t = e.end, ctx.add_trace
     t("shear", loc, "tension steel", f"{e.side.bars} ({e.side.name})", "", cl["dv"], "sets d and dv at this end")

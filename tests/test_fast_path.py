@@ -1,0 +1,104 @@
+"""The whole-schedule path gives the same results, beam for beam, as checking one span at a
+time with every trace line kept (the path it replaced).
+
+``check_schedule`` runs the checks without keeping their trace and works each span's trace out
+again when it is read (``LazyTrace``); nothing a check reports may differ. The reference is
+``check_beam(row, code)`` with the trace kept eagerly. The schedule is the benchmark's own
+generator (``generate_schedule``: every section type and end condition), smaller.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import fields
+
+import pytest
+
+from beamsched.codes import get_code
+from beamsched.engine import LazyTrace, check_beam, check_schedule
+from beamsched.model import BeamInput, BeamStatus, CheckResult, TraceLine
+from beamsched.schedule import read_schedule
+from beamsched.schedule.samples import generate_schedule
+
+N_SPANS = 300
+
+
+def same(a, b) -> bool:
+    """Equal values, with NaN equal to NaN (a value no check should make, but if one did it
+    must be the same on both paths)."""
+    if isinstance(a, float) and isinstance(b, float) and math.isnan(a) and math.isnan(b):
+        return True
+    return type(a) is type(b) and a == b
+
+
+@pytest.fixture(scope="module")
+def both(tmp_path_factory):
+    path = generate_schedule(tmp_path_factory.mktemp("fast") / "generated.csv", N_SPANS, seed=3)
+    schedule = read_schedule(path)
+    code = get_code(schedule.code)
+    fast = check_schedule(schedule)
+    reference = [check_beam(row, code) if isinstance(row, BeamInput) else None for row in schedule.rows]
+    return schedule, fast, reference
+
+
+def test_the_schedule_covers_every_section_type_and_outcome(both):
+    schedule, fast, _ = both
+    assert {r.shape for r in schedule.spans} == {"rect", "T", "L"}
+    statuses = {r.status for r in fast}
+    assert {BeamStatus.PASS, BeamStatus.FAIL} <= statuses
+    assert len(fast) == len(schedule.rows) == N_SPANS
+
+
+def test_every_check_of_every_span_is_the_same(both):
+    _, fast, reference = both
+    compared = 0
+    for got, ref in zip(fast, reference, strict=True):
+        if ref is None:  # a row the reader could not turn into a span: no check was run
+            assert got.status is BeamStatus.ERROR
+            continue
+        assert got.status is ref.status, got.label
+        assert len(got.checks) == len(ref.checks), got.label
+        for c_got, c_ref in zip(got.checks, ref.checks, strict=True):
+            for f in fields(CheckResult):  # id, location, clause, status, message, demand, capacity, utilisation...
+                assert same(getattr(c_got, f.name), getattr(c_ref, f.name)), (got.label, c_ref.key, f.name)
+            compared += 1
+        assert got.values.keys() == ref.values.keys(), got.label
+        for k in ref.values:
+            assert same(got.values[k], ref.values[k]), (got.label, k)
+        assert got.understood == ref.understood, got.label
+        assert got.problems == ref.problems and got.assumed == ref.assumed, got.label
+        assert got.utilisation == ref.utilisation or (got.utilisation is None and ref.utilisation is None)
+    assert compared > 10 * N_SPANS  # some 28 checks a span: the comparison really ran
+
+
+def test_every_trace_line_is_the_same(both):
+    _, fast, reference = both
+    lines = 0
+    for got, ref in zip(fast, reference, strict=True):
+        if ref is None:
+            continue
+        assert isinstance(got.trace, LazyTrace)
+        assert len(got.trace) == len(ref.trace) > 0, got.label
+        for t_got, t_ref in zip(got.trace, ref.trace, strict=True):
+            for f in fields(TraceLine):
+                assert same(getattr(t_got, f.name), getattr(t_ref, f.name)), (got.label, t_ref.symbol, f.name)
+            lines += 1
+        assert got.trace == ref.trace  # the sequence compares equal to the eager tuple
+        assert got.trace[0] == ref.trace[0] and tuple(got.trace[-3:]) == ref.trace[-3:]
+    assert lines > 50 * N_SPANS
+
+
+def test_a_trace_read_again_after_many_others_is_the_same(both):
+    _, fast, reference = both
+    spans = [(g, r) for g, r in zip(fast, reference, strict=True) if r is not None]
+    first = tuple(spans[0][0].trace)
+    for g, _ in spans[1: 2 + LazyTrace.KEEP]:  # push the first out of the kept traces
+        len(g.trace)
+    assert tuple(spans[0][0].trace) == first == spans[0][1].trace
+
+
+def test_eager_schedule_keeps_tuples(both):
+    schedule, fast, _ = both
+    eager = check_schedule(schedule, lazy_trace=False)
+    assert all(isinstance(r.trace, tuple) for r in eager)
+    assert eager == fast  # BeamResult equality: every field, the trace through LazyTrace.__eq__
