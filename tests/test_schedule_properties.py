@@ -65,3 +65,38 @@ def test_header_anywhere_in_the_first_30_rows_and_any_column_order(tmp_path_fact
     assert s.header_row == title_rows + 1
     strip = [dataclasses.replace(b, row=None) for b in s.spans]
     assert strip == [dataclasses.replace(b, row=None) for b in base.spans]
+
+
+FUZZ_HEADER = ["Mark", "Span no.", "Qty", "Type", "bw (mm)", "h (mm)", "hf (mm)", "bf (mm)", "Span (m)",
+               "Clear span (m)", "Support", "Left end", "Bottom bars", "Top bars L", "Top bars", "Stirrups",
+               "f'c (MPa)", "fy (MPa)", "Mf+ (kN·m)", "Mf- R (kN·m)", "Vf (kN)", "Exposure", "SFRS", "Density",
+               "Cover (mm)", "d (mm)", "Skin bars", "Tf (kN·m)"]
+_cell = st.one_of(
+    st.none(), st.integers(-1000, 5000), st.floats(-1e4, 1e4, allow_nan=False), st.booleans(),
+    st.sampled_from(["", " ", "4-25M", "2-25M + 2-20M / 2-20M", "10M@200", "T", "L", "Rect", "simple", "cantilever",
+                     "exterior", "yes", "x", "300mm", "#DIV/0!", "=A1", "4-25", "0-25M", "10M@0", "-", "1,200",
+                     "semi-low-density", "one end continuous", "free", "3.5e2"]),
+    st.text(max_size=6),
+)
+
+
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(rows=st.lists(st.lists(_cell, min_size=len(FUZZ_HEADER), max_size=len(FUZZ_HEADER)), min_size=1, max_size=6))
+def test_any_cell_contents_give_spans_or_explained_failures(tmp_path_factory, rows):
+    # rule 7 of the project: bad input is explained and the rest is still checked; nothing crashes
+    from beamsched.engine import check_schedule
+    from beamsched.model import BeamInput, RowFailure
+
+    clean = [list(r) for r in rows]  # text starting with '=' is written as a formula without a result
+    for r in clean:
+        for i, v in enumerate(r):
+            if isinstance(v, str) and any(ord(ch) < 32 for ch in v):
+                r[i] = None  # control characters cannot be stored in a workbook
+    path = write_schedule(tmp_path_factory.mktemp("f") / "f.xlsx", FUZZ_HEADER, clean)
+    s = read_schedule(path)
+    for r in s.rows:
+        assert isinstance(r, (BeamInput, RowFailure))
+        if isinstance(r, RowFailure):
+            assert r.problems and all(p.message and p.row == r.row for p in r.problems)
+    results = check_schedule(s)
+    assert len(results) == len(s.rows)
