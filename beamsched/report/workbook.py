@@ -38,8 +38,6 @@ TITLE = "Concrete beam schedule check"
 # 17 px (12.75 pt) is the row height and 64 px the column width that go with 10-point Arial.
 DEFAULT_FONT = {"default_format_properties": {"font_name": "Arial", "font_size": 10},
                 "default_row_height": 17, "default_column_width": 64}
-SHORT_BLOCK = 12  # rows: a span's working no longer than this (a row not read) needs no page of its own
-MAX_PAGE_BREAKS = 1023  # manual page breaks a worksheet keeps (Excel's limit)
 MAX_LINES = 31  # the tallest row a worksheet allows is 409 pt: 31 lines of 10-point Arial
 
 
@@ -456,7 +454,6 @@ class _Writer:
         labels = {c.id: c.label for c in r.columns}
         unit_fmt = f.get(indent=1)
         small = f.get(font_color="#404040")
-        breaks: list[int] = []
         row = 1
         for x in r.rows:
             res = x.result
@@ -466,8 +463,6 @@ class _Writer:
                                         "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
                                         "batches to see their working.", f.get(bold=True))
                 break
-            if row > 1 and size > SHORT_BLOCK:
-                breaks.append(row)  # each checked span starts a page; a short block (a row not read) runs on
             ws.set_row(row, 18)
             st = P.SPAN_STATUS[res.status]
             ws.write_string(row, 0, x.label, f.get(st.swatch, bold=True, font_size=11))
@@ -552,11 +547,11 @@ class _Writer:
             row += 1
         self.page_setup(ws, 0, len(cols) - 1, "Calculation working")
         # Tabloid portrait: one page wide at about three quarters of full size (7-point text), and
-        # about 120 rows a page; a span's working takes two or three pages.
+        # about 120 rows a page. No page break per span: LibreOffice then adds pages (and a blank
+        # one), and the span named on every row already tells whose working a page holds.
         ws.set_portrait()
         ws.set_paper(3)
         ws.hide_gridlines(0)  # printed gridlines guide the eye along the long rows
-        ws.set_h_pagebreaks(breaks[:MAX_PAGE_BREAKS])
 
     def _result_row(self, ws, row: int, c: CheckResult, label: str) -> int:
         f = self.f
