@@ -164,6 +164,10 @@ def test_parameter_problems(tmp_path):
     assert any("unit system not understood" in m for m in msgs)
     assert any("'Exposure' = 'sometimes'" in m and "interior or exterior" in m for m in msgs)
     assert any("'Colour' is not a parameter" in m for m in msgs)
+    # a Parameters row is not a schedule row: its number is in the words, Problem.row stays None
+    param_problems = [p for p in s.problems if (p.column or "").startswith("Parameters:")]
+    assert len(param_problems) == 4 and all(p.row is None for p in param_problems)
+    assert any(p.message.startswith("Parameters row 5") for p in param_problems)
     (f,) = s.failures  # no f'c anywhere
     assert "f'c" in f.problems[0].message and "Parameters sheet gives none" in f.problems[0].message
 

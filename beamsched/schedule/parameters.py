@@ -137,7 +137,7 @@ def read_parameters(grid: Grid | None) -> Defaults:
 
     def problem(number: int, label: str, value: object, what: str) -> None:
         d.problems.append(Problem(f"{grid.name} row {number}, '{label}' = {value!r}: {what}",
-                                  f"{grid.name}: {label}", value, number))
+                                  f"{grid.name}: {label}", value, None))  # row: schedule rows only
 
     for number, name_cell, value_cell, unit_cell in _pairs(grid):
         label = str(name_cell.value).strip()
@@ -151,7 +151,7 @@ def read_parameters(grid: Grid | None) -> Defaults:
             if norm(label) in ("name", "parameter", "parameters", "item", "setting"):
                 continue  # the sheet's own header row
             d.problems.append(Problem(f"{grid.name} row {number}: '{label}' is not a parameter beamsched reads "
-                                      "(ignored)", f"{grid.name}: {label}", value_cell.value, number, "warning"))
+                                      "(ignored)", f"{grid.name}: {label}", value_cell.value, None, "warning"))
             continue
         if value_cell.blank:
             continue
