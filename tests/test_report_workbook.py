@@ -267,3 +267,31 @@ def test_trace_number_formats_show_four_significant_figures(v, fmt):  # common p
         if "E" not in fmt:
             shown = float(f"{v:.{dec}f}")
             assert shown == pytest.approx(v, rel=5e-4)
+
+
+def test_default_font_and_printed_gridlines(book):
+    _, wb = book
+    # Column widths are counted in digits of the workbook's default font (ECMA-376 Part 1,
+    # 18.3.1.13 col): Arial 10, the font of every cell, so the layout does not hang on Calibri.
+    normal = wb._fonts[0]
+    assert (normal.name, normal.sz) == ("Arial", 10)
+    for name in ("Spans", "Working", "Input problems"):
+        assert wb[name].print_options.gridLines, name
+    assert wb["Working"].page_setup.paperSize == wb["Spans"].page_setup.paperSize == 3  # Tabloid
+    assert wb["Working"].page_setup.orientation == "portrait"
+
+
+def test_row_heights_hold_their_text(book):
+    from beamsched.report.fit import LINE_HEIGHT, wrapped_lines
+
+    _, wb = book
+    for name in ("Spans", "Working", "About", "Input problems"):
+        ws = wb[name]
+        widths = {c: ws.column_dimensions[c].width for c in ws.column_dimensions}
+        for row in ws.iter_rows(min_row=2):
+            height = ws.row_dimensions[row[0].row].height or 12.75
+            for c in row:
+                if isinstance(c.value, str) and c.alignment.wrap_text and c.column_letter in widths:
+                    lines = wrapped_lines(c.value, widths[c.column_letter], bold=bool(c.font.b),
+                                          indent=int(c.alignment.indent or 0))
+                    assert height >= LINE_HEIGHT * min(lines, 31) - 0.75, (name, c.coordinate, c.value)  # 1 px rounding
