@@ -260,3 +260,9 @@ def test_hidden_rows_are_checked_and_listed_and_other_schedule_sheets_named(tmp_
     assert "row 3 is hidden in the workbook; it is read and checked" in words
     assert "'Level 6' also holds a schedule" in words
     assert all(x.severity == "warning" for x in s.problems)
+
+
+def test_sheet_asked_of_a_csv_file_is_a_warning(tmp_path):
+    p = write_schedule(tmp_path / "one.csv", HEADER_F, [["F2", 300, 600, 30, 400, 6, 150, "4-25M"]])
+    s = read_schedule(p, sheet="Level 2")
+    assert len(s.spans) == 1 and "does not apply" in s.problems[0].message

@@ -104,14 +104,12 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
         raise ScheduleError(f"{p.name}: the old .xls format is not read; save it as .xlsx, or export as .csv")
     if not is_csv and suffix not in WORKBOOK_SUFFIXES and not data.startswith(b"PK"):
         raise ScheduleError(f"{p.name}: not a schedule file beamsched reads (expected .xlsx, .xlsm or .csv)")
-    if is_csv:
-        grids = [read_csv(p)]
-        if sheet is not None and norm(sheet) != norm(grids[0].name):
-            pass  # a CSV file has one table: --sheet does not apply
-    else:
-        grids = read_workbook(p)
+    grids = [read_csv(p)] if is_csv else read_workbook(p)
     grid, header_at = _pick_sheet(grids, None if is_csv else sheet, p.name)
     notes: list[Problem] = []
+    if is_csv and sheet is not None:
+        notes.append(Problem(f"a CSV file holds one table: the sheet '{sheet}' asked for does not apply", None, sheet,
+                             None, "warning"))
     if not is_csv and sheet is None:
         others = [g.name for g in grids if g is not grid and norm(g.name) not in PARAMETERS_SHEET_NAMES
                   and g.header_index() is not None]
