@@ -375,8 +375,8 @@ class _Writer:
         r, f = self.r, self.f
         ws = self.wb.add_worksheet("Spans")
         cols: list[tuple[str, float]] = [
-            ("Row", 5), ("Mark", 8), ("Span\nno.", 5), ("Status", 11.5), ("Max\nutilisation", 7.5),
-            ("Governing check", 13), ("Governs\nat", 6),
+            ("Row", 5), ("Mark", 8), ("Span\nno.", 5), ("Status", 11.5), ("Max\nutilisation", 9.5),
+            ("Governing check", 13), ("Governs\nat", 9),
         ]
         n_fixed = len(cols)
         cols += [(f"{c.label}\nutilisation", 6.5) for c in r.columns]
