@@ -323,3 +323,8 @@ def test_units_without_brackets_and_line_breaks_in_headers(label, key, unit):
 
     col, u = match_header(label)
     assert (col.key if col else None, u) == (key, unit)
+
+
+def test_the_psi_hint_names_the_column_it_is_about(tmp_path):
+    (f,) = write(tmp_path, [row({"f'c (MPa)": 4000})]).failures
+    assert "e.g. 'f'c (psi)'" in f.problems[0].message

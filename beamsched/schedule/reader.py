@@ -1,5 +1,7 @@
 """Reading beam schedules: .xlsx / .xlsm (formula cells as their saved values) and .csv.
 
+(The implementation behind :func:`beamsched.schedule.read_schedule`.)
+
 :func:`read_schedule` finds the header (the first row within the first 30 holding a ``Mark``
 cell), matches the column labels and their units, reads the optional ``Parameters`` sheet, and
 turns each row into a :class:`~beamsched.model.BeamInput` or a
@@ -32,7 +34,7 @@ from .rows import (
 WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
 CSV_SUFFIXES = (".csv", ".txt")
 
-__all__ = ["read_schedule", "ScheduleError", "COLUMNS"]
+__all__ = ["read_schedule", "ScheduleError", "COLUMNS", "BeamInput", "RowFailure"]
 
 
 def _pick_sheet(grids: list[Grid], sheet: str | None, name: str) -> tuple[Grid, int]:

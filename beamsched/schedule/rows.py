@@ -551,7 +551,8 @@ def _relabel(p: Problem, r: _Row) -> Problem:
         message = message.split(": ", 1)[1]  # the value is shown as the file has it
     message = message.replace(" a L-beam", " an L-beam")
     if fld in ("fc", "fy", "fyt") and isinstance(p.value, (int, float)) and p.value > 1000:
-        message += "; if the value is in psi, say so in the header, e.g. 'fy (psi)'"
+        name = {"fc": "f'c", "fy": "fy", "fyt": "fyt"}[fld]
+        message += f"; if the value is in psi, say so in the header, e.g. '{name} (psi)'"
     return Problem(f"row {r.number}, '{label}' = {_show(raw)}: {message}", label, raw, r.number, p.severity)
 
 
