@@ -123,3 +123,13 @@ def test_every_template_header_reads_back_as_its_column(key):
 
     col, unit = match_header(BY_KEY[key].header())
     assert col is not None and col.key == key and unit == BY_KEY[key].unit
+
+
+def test_column_table_for_the_readme_covers_every_column():
+    from beamsched.schedule.columns import COLUMNS, FIELDS, markdown_table
+
+    assert set(FIELDS) == {c.key for c in COLUMNS}
+    table = markdown_table()
+    assert table == markdown_table()  # stable, so the README can be regenerated
+    for c in COLUMNS:
+        assert f"| `{c.header()}`" in table

@@ -301,7 +301,7 @@ def markdown_table() -> str:
     """The column table for the README: label, unit, what it fills, aliases, units understood."""
     lines = ["| column (template header) | fills | also read as | units understood |", "|---|---|---|---|"]
     for c in COLUMNS:
-        aliases = sorted({a for a in c.aliases if norm(a) != norm(c.label)}, key=len)
+        aliases = sorted({a for a in c.aliases if norm(a) != norm(c.label)}, key=lambda a: (len(a), a))
         shown = ", ".join(f"`{a}`" for a in aliases[:8]) + (" …" if len(aliases) > 8 else "")
         units = UNITS_ACCEPTED[c.dimension] if c.dimension else ("mm (spacing) or none" if c.kind == "stirrups"
                                                                   else "none")
