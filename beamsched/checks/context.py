@@ -7,7 +7,8 @@ flexural tension steel) without recomputing or reformatting anything.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import sys
+from dataclasses import dataclass, replace
 from typing import Literal
 
 from ..bars import BarArrangement
@@ -98,6 +99,11 @@ class SpanContext:
             self.trace.append(TraceLine(check, location, symbol, value, unit, clause, description))
 
     def add(self, result: CheckResult) -> CheckResult:
+        # The same note recurs across a schedule (a few thousand distinct texts in 280,000
+        # results for 10,000 spans): one shared copy of each keeps a building's results small.
+        message = sys.intern(result.message)
+        if message is not result.message:
+            result = replace(result, message=message)
         self.results.append(result)
         return result
 
