@@ -17,7 +17,7 @@ from ..codes import DesignCode
 from ..engine import FIELD_LABELS, validate
 from ..model import BeamInput, Problem, RowFailure
 from . import values as cv
-from .cells import Cell
+from .cells import EMPTY, Cell
 from .columns import BY_KEY, Column, match_header
 from .parameters import DENSITIES, DENSITY_LAMBDA, EXPOSURES, Defaults, density_key
 from .units import DIMENSION_WORDS, ENGINE_UNIT, UNIT_SYSTEMS, UnitError, unit_factor
@@ -133,17 +133,17 @@ class _Row:
         self.assumed: list[str] = []
         self.origin: dict[str, tuple[str, object]] = {}  # BeamInput field -> (label, value as found)
         self.source: dict[str, str] = {}
+        n = len(cells)
+        self._by_key = {key: (cells[i] if i < n else EMPTY) for key, i in hdr.index.items()}
+        self._filled = {key for key, c in self._by_key.items() if not c.blank}
 
     # -- cells ------------------------------------------------------------------------
     def cell(self, key: str) -> Cell | None:
-        i = self.hdr.index.get(key)
-        if i is None:
-            return None
-        return self.cells[i] if i < len(self.cells) else Cell(None)
+        """The row's cell in a column (None when the schedule has no such column)."""
+        return self._by_key.get(key)
 
     def has(self, key: str) -> bool:
-        c = self.cell(key)
-        return c is not None and not c.blank
+        return key in self._filled
 
     def fail(self, key: str, value: object, what: str, expected: str) -> None:
         label = self.hdr.label(key)
@@ -310,8 +310,7 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
                 position: SpanPosition) -> BeamInput | RowFailure:
     """One schedule row -> a BeamInput, or a RowFailure listing every problem found in it."""
     r = _Row(number, cells, hdr, defaults)
-    filled = [k for k in hdr.index if r.has(k)]
-    if filled == ["mark"]:
+    if r._filled == {"mark"}:
         label = hdr.label("mark")
         value = r.cell("mark").value  # type: ignore[union-attr]
         return RowFailure(str(value).strip(), None, number, (Problem(
