@@ -14,8 +14,11 @@ Heavy libraries (pandas, openpyxl, xlsxwriter, pint) are imported only inside th
 from __future__ import annotations
 
 import argparse
+import os
+import signal
 import sys
 import textwrap
+import traceback
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import TextIO
@@ -43,6 +46,44 @@ class UsageError(Exception):
     """The command cannot run as asked; the message is one line."""
 
 
+class Terminated(BaseException):
+    """The process was asked to stop (SIGTERM, SIGHUP): unwinds like Ctrl-C, so that every
+    temporary output file is removed and every earlier output is left as it was."""
+
+
+def one_line(message: object) -> str:
+    """A message on one line (a library's exception text may hold line breaks)."""
+    return " ".join(str(message).split())
+
+
+# The input limits: (Limits field, option, metavar, type, default shown in --help, help). The limits
+# themselves are beamsched.schedule.guard.Limits; its defaults are repeated here only for the help
+# text, because importing the reader would load pint before --help answers (a test keeps the two
+# equal). A refusal names the option that lifts the limit it hit.
+LIMIT_OPTIONS = (
+    ("file_mb", "--max-file-mb", "MB", float, "100", "largest schedule file read"),
+    ("unzipped_mb", "--max-unzipped-mb", "MB", float, "1,000", "largest total of a workbook's parts, decompressed"),
+    ("ratio", "--max-ratio", "N", float, "100", "largest compression ratio of one part over 1 MB (a bomb guard)"),
+    ("parts", "--max-parts", "N", int, "5,000", "most parts (zip members) in a workbook package"),
+    ("sheets", "--max-sheets", "N", int, "200", "most sheets in a workbook"),
+    ("rows", "--max-rows", "N", int, "250,000", "the last row a sheet (or a CSV file) may reach"),
+    ("columns", "--max-columns", "N", int, "1,000", "the last column a sheet (or a CSV row) may reach"),
+)
+
+
+def _positive(kind):
+    def parse(text: str):
+        try:
+            value = kind(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"expected a {'whole ' if kind is int else ''}number, got {text!r}") from None
+        if not value > 0 or value != value or value == float("inf"):
+            raise argparse.ArgumentTypeError(f"expected a finite number greater than zero, got {text!r}")
+        return value
+    parse.__name__ = kind.__name__
+    return parse
+
+
 # -- argument parsing ----------------------------------------------------------------------------
 class _Parser(argparse.ArgumentParser):
     def error(self, message: str):  # one line, the usage, and exit code 2
@@ -60,10 +101,13 @@ def build_parser() -> argparse.ArgumentParser:
         epilog=f"{EXIT_CODES_HELP}\n\nRun 'beamsched COMMAND --help' for each command.\n\n{caution}",
     )
     parser.add_argument("--version", action="version", version=f"beamsched {__version__}")
+    common = argparse.ArgumentParser(add_help=False)
+    common.add_argument("--debug", action="store_true",
+                        help="on an error, also print the Python traceback (for a bug report)")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
 
     check = sub.add_parser(
-        "check", formatter_class=fmt, help="check a schedule and write the results",
+        "check", formatter_class=fmt, help="check a schedule and write the results", parents=[common],
         description="Check every span of a beam schedule (.xlsx, .xlsm or .csv) and write the results workbook.\n"
                     "The input file is only read; it is never modified or overwritten. Every output is written\n"
                     "to a temporary file and moved into place, so a failure never leaves half a file.",
@@ -93,10 +137,17 @@ def build_parser() -> argparse.ArgumentParser:
                        help="also write a checked copy of the schedule workbook with the results beside each span")
     check.add_argument("--sheet", metavar="NAME",
                        help="the sheet holding the schedule (default: the first sheet with a 'Mark' header)")
+    limits = check.add_argument_group(
+        "limits on the input",
+        "A file past a limit is refused before it is parsed, with a message naming the limit and the option\n"
+        "that lifts it. Raise a limit only for a file you trust.")
+    for fld, option, metavar, kind, shown, words in LIMIT_OPTIONS:
+        limits.add_argument(option, dest=f"limit_{fld}", metavar=metavar, type=_positive(kind), default=None,
+                            help=f"{words} (default {shown})")
     check.set_defaults(func=_cmd_check)
 
     demo = sub.add_parser(
-        "demo", formatter_class=fmt, help="check the bundled sample schedule",
+        "demo", formatter_class=fmt, help="check the bundled sample schedule", parents=[common],
         description="Check the sample schedule that ships with beamsched (an invented floor) and write its\n"
                     f"results workbook, named SAMPLE{RESULTS_SUFFIX}.xlsx, into the output directory.\n"
                     "The sample holds failing spans and unreadable rows on purpose, to show how they are\n"
@@ -107,7 +158,7 @@ def build_parser() -> argparse.ArgumentParser:
     demo.set_defaults(func=_cmd_demo)
 
     tpl = sub.add_parser(
-        "template", formatter_class=fmt, help="write a blank schedule workbook to fill in",
+        "template", formatter_class=fmt, help="write a blank schedule workbook to fill in", parents=[common],
         description="Write a blank schedule workbook: the header with units, a help comment on each header\n"
                     "cell, drop-down lists, and a Parameters sheet for the project defaults. An existing file\n"
                     "is not overwritten unless --force is given.",
@@ -129,14 +180,59 @@ def main(argv: list[str] | None = None) -> int:
     if args.command is None:
         parser.print_help(sys.stderr)
         return EXIT_UNREADABLE
+    debug = bool(getattr(args, "debug", False))
+    previous = _catch_termination()
     try:
         return args.func(args)
     except UsageError as exc:
-        print(f"beamsched: {exc}", file=sys.stderr)
+        _show_traceback(debug)
+        print(f"beamsched: {one_line(exc)}", file=sys.stderr)
         return EXIT_UNREADABLE
-    except KeyboardInterrupt:
-        print("beamsched: interrupted; no partial output was left behind", file=sys.stderr)
+    except (KeyboardInterrupt, Terminated) as exc:
+        why = "interrupted" if isinstance(exc, KeyboardInterrupt) else "stopped"
+        print(f"beamsched: {why}; no partial output was left behind, and earlier outputs are unchanged",
+              file=sys.stderr)
         return EXIT_UNREADABLE
+    except Exception as exc:  # a bug: one line for the user, the traceback with --debug
+        if debug:
+            traceback.print_exc()
+        print(f"beamsched: internal error ({type(exc).__name__}: {one_line(exc)}); no partial output was left "
+              "behind. Run again with --debug for the traceback, and report it with the file if you can",
+              file=sys.stderr)
+        return EXIT_UNREADABLE
+    finally:
+        _restore_signals(previous)
+
+
+def _show_traceback(debug: bool) -> None:
+    if debug and sys.exc_info()[0] is not None:
+        traceback.print_exc()
+
+
+def _terminate(signum, frame):
+    raise Terminated(signum)
+
+
+def _catch_termination() -> dict:
+    """SIGTERM (and SIGHUP) unwind like Ctrl-C, so that temporary outputs are cleaned up."""
+    previous = {}
+    for name in ("SIGTERM", "SIGHUP"):
+        sig = getattr(signal, name, None)
+        if sig is None:
+            continue
+        try:
+            previous[sig] = signal.signal(sig, _terminate)
+        except (ValueError, OSError):  # not the main thread, or not allowed here
+            pass
+    return previous
+
+
+def _restore_signals(previous: dict) -> None:
+    for sig, handler in previous.items():
+        try:
+            signal.signal(sig, handler)
+        except (ValueError, OSError, TypeError):
+            pass
 
 
 # -- progress -----------------------------------------------------------------------------------
@@ -188,6 +284,8 @@ class Plan:
     csv: Path | None = None
     annotate: Path | None = None
     sheet: str | None = None
+    limits: object = None  # beamsched.schedule.guard.Limits; None: the defaults
+    debug: bool = False
 
 
 @dataclass
@@ -206,9 +304,9 @@ def annotated_name(schedule: Path, folder: Path) -> Path:
 
 
 def make_plan(schedule: str, output: str | None, json: str | None, csv: str | None, annotate: bool,
-              sheet: str | None) -> Plan:
+              sheet: str | None, limits=None, debug: bool = False) -> Plan:
     """Settle every path, and refuse what cannot be done, before anything is read or written."""
-    from .report.atomic import same_file
+    from .report.atomic import OutputError, refuse_unwritable, same_file
 
     src = Path(schedule)
     if not src.exists():
@@ -218,7 +316,7 @@ def make_plan(schedule: str, output: str | None, json: str | None, csv: str | No
     out = Path(output) if output else default_output(src)
     if out.suffix.lower() != ".xlsx":
         raise UsageError(f"the results workbook {out} must be named .xlsx")
-    plan = Plan(src, out, Path(json) if json else None, Path(csv) if csv else None, None, sheet)
+    plan = Plan(src, out, Path(json) if json else None, Path(csv) if csv else None, None, sheet, limits, debug)
     if annotate:
         if src.suffix.lower() not in (".xlsx", ".xlsm"):
             raise UsageError(f"--annotate needs an .xlsx or .xlsm schedule; {src.name} is not one")
@@ -232,6 +330,16 @@ def make_plan(schedule: str, output: str | None, json: str | None, csv: str | No
                              "overwrites; choose another name")
         if p.is_dir():
             raise UsageError(f"cannot write the {kind} to {p}: it is a folder")
+        folder = p.parent if str(p.parent) else Path(".")
+        if not folder.is_dir():
+            raise UsageError(f"cannot write the {kind} to {p}: the folder {folder} does not exist (create it first)")
+        if not os.access(folder, os.W_OK):
+            raise UsageError(f"cannot write the {kind} to {p}: the folder {folder} is not writable (permission "
+                             "denied); choose another folder")
+        try:
+            refuse_unwritable(p)
+        except OutputError as exc:
+            raise UsageError(f"the {kind}: {exc}") from exc
     for i, (kind, p) in enumerate(outputs):
         for kind2, p2 in outputs[i + 1:]:
             if same_file(p, p2):
@@ -261,14 +369,18 @@ def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None, demo: 
     err = err if err is not None else sys.stderr
     from .report import OutputError, Report, write_annotated, write_csv, write_json, write_results
     from .schedule import ScheduleError, read_schedule
+    from .schedule.guard import inspect_file
 
     try:
+        inspect_file(plan.schedule, plan.limits)  # refuse a hostile or broken file before it is parsed
         schedule = read_schedule(plan.schedule, sheet=plan.sheet)
     except ScheduleError as exc:
-        print(f"beamsched: {exc}", file=err)
+        _show_traceback(plan.debug)
+        print(f"beamsched: {one_line(exc)}", file=err)
         return Outcome(EXIT_UNREADABLE)
     except OSError as exc:
-        print(f"beamsched: cannot read {plan.schedule}: {exc.strerror or exc}", file=err)
+        _show_traceback(plan.debug)
+        print(f"beamsched: cannot read {plan.schedule}: {one_line(exc.strerror or exc)}", file=err)
         return Outcome(EXIT_UNREADABLE)
     if not schedule.rows:
         print(f"beamsched: {plan.schedule.name}: the schedule table has no spans under its header", file=err)
@@ -291,13 +403,17 @@ def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None, demo: 
             result = job(path)
         except OutputError as exc:
             progress.done()
-            print(f"beamsched: {exc}", file=err)
+            _show_traceback(plan.debug)
+            print(f"beamsched: {one_line(exc)}", file=err)
             outcome.code = EXIT_UNREADABLE
             continue
         except OSError as exc:
             progress.done()
-            print(f"beamsched: could not write the {kind.lower()} {path}: {exc.strerror or exc}; nothing was "
-                  "left at that name", file=err)
+            _show_traceback(plan.debug)
+            hint = (" (is the file open in another program, or read-only?)"
+                    if isinstance(exc, PermissionError) else "")
+            print(f"beamsched: could not write the {kind.lower()} {path}: {one_line(exc.strerror or exc)}{hint}; "
+                  "nothing was left half-written at that name, and an earlier file there is unchanged", file=err)
             outcome.code = EXIT_UNREADABLE
             continue
         outcome.written.append((kind, Path(path)))
@@ -384,8 +500,17 @@ def print_summary(report, outcome: Outcome, out: TextIO, demo: bool = False) -> 
 
 
 # -- commands -----------------------------------------------------------------------------------
+def limits_from(args):
+    """The input limits: the defaults, with each option given on the command line."""
+    from .schedule.guard import Limits
+
+    given = {fld: getattr(args, f"limit_{fld}", None) for fld, *_ in LIMIT_OPTIONS}
+    return replace(Limits(), **{k: v for k, v in given.items() if v is not None})
+
+
 def _cmd_check(args) -> int:
-    plan = make_plan(args.schedule, args.output, args.json, args.csv, args.annotate, args.sheet)
+    plan = make_plan(args.schedule, args.output, args.json, args.csv, args.annotate, args.sheet,
+                     limits_from(args), args.debug)
     return run(plan).code
 
 
@@ -401,7 +526,7 @@ def _cmd_demo(args) -> int:
     output = folder / f"{sample.stem}{RESULTS_SUFFIX}.xlsx"
     print(f"Checking the bundled sample schedule {sample}")
     print("(an invented floor; some spans fail and some rows are unreadable on purpose)\n")
-    outcome = run(make_plan(str(sample), str(output), None, None, False, None), demo=True)
+    outcome = run(make_plan(str(sample), str(output), None, None, False, None, debug=args.debug), demo=True)
     if not any(kind == "Results workbook" for kind, _ in outcome.written):
         return EXIT_UNREADABLE
     print(f"\nThe demo results are in {output.resolve()}")

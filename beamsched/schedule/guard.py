@@ -30,6 +30,7 @@ from __future__ import annotations
 import re
 import struct
 import zipfile
+import zlib
 from dataclasses import dataclass, fields
 from pathlib import Path, PurePosixPath
 
@@ -94,9 +95,19 @@ LIMIT_WORDS = {
 
 def _over(found: str, limit: str, field_: str, suggest: float | int, note: str = "") -> str:
     """One line: what was found, the limit it passes, and the option (with a value) that lifts it."""
-    shown = f"{suggest:g}" if isinstance(suggest, float) else str(suggest)
+    shown = _nice(suggest)
     return (f"{found}, over the {LIMIT_WORDS[field_]} of {limit}{note}; if the file is genuine, raise the limit "
             f"with {OPTIONS[field_]} {shown}")
+
+
+def _nice(x: float) -> str:
+    """A round value at or above ``x`` to suggest for an option: 1, 2 or 5 times a power of ten."""
+    step = 1
+    while True:
+        for m in (1, 2, 5):
+            if m * step >= x:
+                return str(m * step)
+        step *= 10
 
 
 def _mb(n: float) -> str:
@@ -309,7 +320,7 @@ def _zip(p: Path, name: str, size: int, limits: Limits) -> None:
         require_defused_xml()
     except ScheduleError:
         raise
-    except zipfile.BadZipFile as exc:
+    except (zipfile.BadZipFile, zlib.error) as exc:
         _fail(name, f"the workbook is damaged ({exc}): ask for the file again, or open and re-save it")
     except (OSError, EOFError, ValueError, NotImplementedError, RuntimeError, struct.error) as exc:
         _fail(name, f"the workbook is damaged and cannot be read ({exc}): ask for the file again, or open and "
