@@ -533,7 +533,7 @@ def sample_rows() -> list[dict]:
             rows.append(dict(s, _role="duplicate"))  # the same row pasted twice
         if key == ("B2", 4):
             clash = dict(s, bottom_bars=_one_less(s["bottom_bars"]), _role="clash")
-            s["_role"] = "clash"
+            s["_role"] = "clashed"  # the original: kept in the US variant, an error here (its twin differs)
             rows.append(clash)
         if key in after:
             rows.append(mistakes[after[key]])
