@@ -115,6 +115,11 @@ def test_result_columns_right_of_the_table(copy):
     assert bad.comment is not None and "cl. 10.1" in bad.comment.text
     assert ok.comment is None
     assert "cl. 10.1" in ws.cell(6, 13).value
+    # each one-line header has room in a bold face a third wider than Calibri (DejaVu Sans, which
+    # LibreOffice uses where Calibri is missing; seen in its PDF export): 1.25 units a character
+    for c in range(8, 13):
+        head = ws.cell(4, c).value
+        assert ws.column_dimensions[ws.cell(4, c).column_letter].width >= 1.25 * len(head), head
 
 
 def test_lost_images_charts_and_shapes_are_reported(tmp_path):

@@ -30,15 +30,24 @@ from .jsonout import _smaller_of_ends
 from .table import Report, SpanRow
 
 NOTICE_SHEET = "beamsched check"
-# One-line headers: the user's header row keeps its height.
-RESULT_COLUMNS = (
-    ("beamsched Mr+ (kN·m)", 21, "Mr_pos_kNm"),
-    ("beamsched Mr− (kN·m), smaller end", 32, "Mr_neg_kNm"),
-    ("beamsched Vr (kN), smaller end", 29, "Vr_kN"),
-    ("beamsched max utilisation", 25, None),
-    ("beamsched status", 17, None),
+# One-line headers: the user's header row keeps its height. The header is in the user's own font,
+# bold, which may be wider than the digits columns are counted in (DejaVu Sans, where Calibri is
+# missing, runs a third wider): 1.25 units a character holds it in any of the usual faces.
+_WIDE = 1.25
+
+
+def _fit(head: str) -> float:
+    return math.ceil(len(head) * _WIDE) + 2
+
+
+RESULT_COLUMNS = tuple((head, _fit(head) if width is None else width, key) for head, width, key in (
+    ("beamsched Mr+ (kN·m)", None, "Mr_pos_kNm"),
+    ("beamsched Mr− (kN·m), smaller end", None, "Mr_neg_kNm"),
+    ("beamsched Vr (kN), smaller end", None, "Vr_kN"),
+    ("beamsched max utilisation", None, None),
+    ("beamsched status", None, None),
     ("beamsched note (all notes in the cell comment and the results workbook)", 90, None),
-)
+))
 
 # Parts of an .xlsx package, counted in the original and in the copy.
 _PARTS = {
