@@ -279,6 +279,8 @@ def test_default_font_and_printed_gridlines(book):
         assert wb[name].print_options.gridLines, name
     assert wb["Working"].page_setup.paperSize == wb["Spans"].page_setup.paperSize == 3  # Tabloid
     assert wb["Working"].page_setup.orientation == "portrait"
+    # a filter on the Working sheet picks one span's rows, to print its working alone
+    assert wb["Working"].auto_filter.ref.startswith("A1:H")
 
 
 def test_row_heights_hold_their_text(book):

@@ -366,6 +366,9 @@ class _Writer:
         row += 1
         ws.write_string(row, 0, "The words and numbers carry the meaning; the colours only repeat it, so a "
                                 "greyscale print reads the same.", f.get(italic=True))
+        row += 1
+        ws.write_string(row, 0, "The Working sheet holds every span's calculation, each row headed by its span: "
+                                "filter its Span column to see or print the working of one span.", f.get(italic=True))
         self.page_setup(ws, None, len(widths) - 1, "Overview")
         ws.fit_to_pages(1, 1)
         ws.set_portrait()
@@ -545,6 +548,7 @@ class _Writer:
                     for c in checks:
                         row = self._result_row(ws, row, c, x.label)
             row += 1
+        ws.autofilter(0, 0, max(row - 1, 1), len(cols) - 1)  # filter one span's rows to print its working alone
         self.page_setup(ws, 0, len(cols) - 1, "Calculation working")
         # Tabloid portrait: one page wide at about three quarters of full size (7-point text), and
         # about 120 rows a page. No page break per span: LibreOffice then adds pages (and a blank
