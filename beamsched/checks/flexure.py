@@ -11,10 +11,9 @@ Where each is made:
 from __future__ import annotations
 
 import math
-from dataclasses import replace
 
 from ..model import CheckResult, CheckStatus, Location
-from ..solve.flexure import solve_flexure
+from ..solve.flexure import SolverBar, moment_resistance
 from ..solve.roots import bracketed_root
 from .context import NMM_PER_KNM, FlexureCase, Sense, SpanContext
 
@@ -170,9 +169,10 @@ def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
     base = tuple(b.bar for b in sol.bars)
 
     def mr(k: float) -> float:
-        bars = tuple(replace(b, area=b.area * k) if b.tension_steel else b for b in base)
-        return solve_flexure(outline, bars, fc=inp.fc, fy=inp.fy, phi_c=ctx.phi_c, phi_s=ctx.phi_s,
-                             Es=ctx.code.Es, alpha1=sol.alpha1, beta1=sol.beta1, eps_cu=sol.eps_cu).Mr
+        bars = tuple(SolverBar(b.area * k, b.depth, b.db, b.label, b.counted, b.tension_steel) if b.tension_steel
+                     else b for b in base)
+        return moment_resistance(outline, bars, fc=inp.fc, fy=inp.fy, phi_c=ctx.phi_c, phi_s=ctx.phi_s,
+                                 Es=ctx.code.Es, alpha1=sol.alpha1, beta1=sol.beta1, eps_cu=sol.eps_cu)
 
     lo, hi, f_lo = 0.0, 1.0, -mf
     f_hi = mr(hi) - mf

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 from ..section import Rect
 from .roots import bracketed_root
 
-__all__ = ["SolverBar", "FlexureSolution", "BarState", "solve_flexure"]
+__all__ = ["SolverBar", "FlexureSolution", "BarState", "solve_flexure", "moment_resistance"]
 
 
 @dataclass(frozen=True)
@@ -98,38 +98,12 @@ def _overlap(bar: SolverBar, a: float) -> float:
     return (theta - math.sin(theta)) / (2.0 * math.pi)
 
 
-def solve_flexure(
-    outline: tuple[Rect, ...],
-    bars: tuple[SolverBar, ...],
-    *,
-    fc: float,
-    fy: float,
-    phi_c: float,
-    phi_s: float,
-    Es: float,
-    alpha1: float,
-    beta1: float,
-    eps_cu: float,
-) -> FlexureSolution:
-    """Find c such that the forces balance, and the factored resistance Mr (N·mm)."""
+def _neutral_axis(
+    outline: tuple[Rect, ...], bars: tuple[SolverBar, ...], fcd: float, fy: float, phi_s: float, Es: float,
+    beta1: float, eps_cu: float, fyd: float, As: float,
+) -> float:
+    """The neutral-axis depth c (mm) at which the forces balance (the one root-find of the solver)."""
     h = max(r.y1 for r in outline)
-    fcd = alpha1 * phi_c * fc  # stress-block intensity
-    fyd = phi_s * fy
-    tension = [b for b in bars if b.tension_steel]
-    As = sum(b.area for b in tension)
-    d = sum(b.area * b.depth for b in tension) / As if As > 0 else 0.0
-
-    def states(c: float) -> tuple[float, float, float, list[BarState]]:
-        a = beta1 * c
-        area, first = _block(outline, a)
-        out = []
-        for b in bars:
-            strain = eps_cu * (c - b.depth) / c
-            stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
-            displaced = fcd * b.area * _overlap(b, a)
-            out.append(BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced))
-        return a, area, first, out
-
     areas = [b.area for b in bars]
     depths = [b.depth for b in bars]
     tops = [b.depth - b.db / 2 for b in bars]
@@ -148,12 +122,6 @@ def solve_flexure(
                 total -= fcd * areas[i] * _overlap(b, a)
         return total
 
-    trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
-    if As <= 0:
-        return FlexureSolution(
-            0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, (), 0.0, True, True,
-            alpha1, beta1, eps_cu, fcd, fyd, 0.0, 0.0,
-        )
     lo, hi = 1e-9 * h, h
     f_lo, f_hi = imbalance(lo), imbalance(hi)
     while f_hi < 0:  # grows only for sections with more steel than concrete can balance
@@ -162,7 +130,82 @@ def solve_flexure(
         if hi > 1e3 * h:
             raise ArithmeticError("no neutral axis balances the forces")
         f_hi = imbalance(hi)
-    c = bracketed_root(imbalance, lo, hi, f_lo, f_hi, tol_f=1e-9 * fyd * As, tol_x=1e-12 * h)
+    return bracketed_root(imbalance, lo, hi, f_lo, f_hi, tol_f=1e-9 * fyd * As, tol_x=1e-12 * h)
+
+
+def moment_resistance(
+    outline: tuple[Rect, ...],
+    bars: tuple[SolverBar, ...],
+    *,
+    fc: float,
+    fy: float,
+    phi_c: float,
+    phi_s: float,
+    Es: float,
+    alpha1: float,
+    beta1: float,
+    eps_cu: float,
+) -> float:
+    """The factored resistance Mr (N·mm) alone: :func:`solve_flexure`'s ``Mr``, the same
+    neutral axis and the same arithmetic, without building the states a trace needs (for
+    callers that solve many times, such as the steel required for a moment)."""
+    fcd = alpha1 * phi_c * fc
+    fyd = phi_s * fy
+    As = sum(b.area for b in bars if b.tension_steel)
+    if As <= 0:
+        return 0.0
+    c = _neutral_axis(outline, bars, fcd, fy, phi_s, Es, beta1, eps_cu, fyd, As)
+    a = beta1 * c
+    area, first = _block(outline, a)
+    Cc = fcd * area
+    yc = first / area if area > 0 else 0.0
+    moment = 0.0
+    for b in bars:
+        strain = eps_cu * (c - b.depth) / c
+        stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
+        force = phi_s * b.area * stress - fcd * b.area * _overlap(b, a)
+        moment += force * b.depth
+    return -(Cc * yc + moment)
+
+
+def solve_flexure(
+    outline: tuple[Rect, ...],
+    bars: tuple[SolverBar, ...],
+    *,
+    fc: float,
+    fy: float,
+    phi_c: float,
+    phi_s: float,
+    Es: float,
+    alpha1: float,
+    beta1: float,
+    eps_cu: float,
+) -> FlexureSolution:
+    """Find c such that the forces balance, and the factored resistance Mr (N·mm)."""
+    fcd = alpha1 * phi_c * fc  # stress-block intensity
+    fyd = phi_s * fy
+    tension = [b for b in bars if b.tension_steel]
+    As = sum(b.area for b in tension)
+    d = sum(b.area * b.depth for b in tension) / As if As > 0 else 0.0
+
+    def states(c: float) -> tuple[float, float, float, list[BarState]]:
+        a = beta1 * c
+        area, first = _block(outline, a)
+        out = []
+        for b in bars:
+            strain = eps_cu * (c - b.depth) / c
+            stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
+            displaced = fcd * b.area * _overlap(b, a)
+            out.append(BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced))
+        return a, area, first, out
+
+    trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
+    if As <= 0:
+        return FlexureSolution(
+            0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, (), 0.0, True, True,
+            alpha1, beta1, eps_cu, fcd, fyd, 0.0, 0.0,
+        )
+    c = _neutral_axis(outline, bars, fcd, fy, phi_s, Es, beta1, eps_cu, fyd, As)
     a, area, first, st = states(c)
     Cc = fcd * area
     yc = first / area if area > 0 else 0.0
