@@ -11,6 +11,7 @@ from .checks import CHECK_MODULES
 from .checks.context import SpanContext
 from .codes import DesignCode, get_code
 from .model import BeamInput, BeamResult, BeamStatus, Problem, RowFailure, Schedule, TraceLine, beam_status
+from .section import place_bars
 
 # Field names as the schedule calls them, for messages.
 FIELD_LABELS = {
@@ -64,17 +65,46 @@ def validate(inp: BeamInput, code: DesignCode) -> list[Problem]:
             bad("hf", inp.hf, f"less than h = {inp.h:g} mm")
         if inp.bf is not None and inp.bf < inp.bw:
             bad("bf", inp.bf, f"at least bw = {inp.bw:g} mm")
-        if inp.bf is None and inp.hf is not None and inp.span is None and inp.clear_span is None and inp.clear_to_next_web is None:
-            pass  # 12 hf / 6 hf still bounds the width: it is computed and flagged
     for f in ("d_bottom", "d_top"):
         v = getattr(inp, f)
         if v is not None and v >= inp.h:
             bad(f, v, f"less than h = {inp.h:g} mm")
     if inp.span is not None and inp.clear_span is not None and inp.clear_span > inp.span:
         bad("clear_span", inp.clear_span, f"no more than the span, {inp.span:g} mm")
+    _bars_inside(inp, code, bad)
     for err in code.material_errors(inp.fc, inp.fy, inp.fyt):
         out.append(Problem(f"{err.field} = {err.value:g} MPa: expected {err.expected}", err.field, err.value, inp.row))
     return out
+
+
+BAR_FIELDS = {"bottom_bars": ("Bottom bars", "bottom"), "top_bars_left": ("Top bars L", "top"),
+              "top_bars_right": ("Top bars R", "top"), "top_bars_mid": ("Top bars at midspan", "top"),
+              "bottom_bars_support": ("Bottom bars at support", "bottom")}
+
+
+def _bars_inside(inp: BeamInput, code: DesignCode, bad) -> None:
+    """Every bar must lie within the section, placed as the checks place it (cover, stirrup,
+    layers): bars that cannot even be placed inside h give no meaningful resistance. (Bars too
+    many for the width are a failed bar-fit check, not an input error.)"""
+    stirrup_db = inp.stirrups.bar.db if inp.stirrups else 0.0
+    numbers = (inp.h, inp.cover_top, inp.cover_bottom, inp.agg)
+    if not all(isinstance(v, (int, float)) and math.isfinite(v) for v in numbers):
+        return  # a value it needs is itself in error (reported elsewhere)
+
+    def clear(db_below: float, db_above: float) -> float:
+        return inp.layer_clear if inp.layer_clear is not None else code.bar_clear_spacing(max(db_below, db_above), inp.agg)
+
+    for name, (label, face) in BAR_FIELDS.items():
+        bars = getattr(inp, name)
+        if bars is None:
+            continue
+        cover = inp.cover_top if face == "top" else inp.cover_bottom
+        deepest = max(p.depth + p.db / 2 for p in place_bars(bars, cover, stirrup_db, clear))
+        if deepest > inp.h:
+            FIELD_LABELS.setdefault(name, label)
+            bad(name, str(bars), f"bars that fit within h = {inp.h:g} mm: placed from the {face} face with "
+                                 f"{cover:g} mm cover{' and the stirrups' if stirrup_db else ''}, they reach "
+                                 f"{deepest:.0f} mm deep")
 
 
 def _understood(ctx: SpanContext) -> None:

@@ -98,6 +98,14 @@ def _overlap(bar: SolverBar, a: float) -> float:
     return (theta - math.sin(theta)) / (2.0 * math.pi)
 
 
+def _displaced_scale(bars: tuple[SolverBar, ...], a: float, block_area: float) -> float:
+    """Factor (<= 1) on the concrete the bars displace, so that together they never displace
+    more concrete than the stress block holds. It is 1 for any section whose bars fit; only
+    bars scheduled in more area than the concrete around them (a failed bar-fit check) reach it."""
+    displaced = sum(b.area * _overlap(b, a) for b in bars)
+    return 1.0 if displaced <= block_area else block_area / displaced
+
+
 def _neutral_axis(
     outline: tuple[Rect, ...], bars: tuple[SolverBar, ...], fcd: float, fy: float, phi_s: float, Es: float,
     beta1: float, eps_cu: float, fyd: float, As: float,
@@ -114,13 +122,14 @@ def _neutral_axis(
         a = beta1 * c
         area, _ = _block(outline, a)
         total = fcd * area
+        displaced = 0.0
         for i, b in enumerate(bars):
             if counted[i]:
                 strain = eps_cu * (c - depths[i]) / c
                 total += phi_s * areas[i] * max(-fy, min(fy, Es * strain))
             if a > tops[i]:
-                total -= fcd * areas[i] * _overlap(b, a)
-        return total
+                displaced += areas[i] * _overlap(b, a)
+        return total - fcd * min(displaced, area)
 
     lo, hi = 1e-9 * h, h
     f_lo, f_hi = imbalance(lo), imbalance(hi)
@@ -159,13 +168,14 @@ def moment_resistance(
     area, first = _block(outline, a)
     Cc = fcd * area
     yc = first / area if area > 0 else 0.0
+    k = _displaced_scale(bars, a, area)
     moment = 0.0
     for b in bars:
         strain = eps_cu * (c - b.depth) / c
         stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
-        force = phi_s * b.area * stress - fcd * b.area * _overlap(b, a)
+        force = phi_s * b.area * stress - k * fcd * b.area * _overlap(b, a)
         moment += force * b.depth
-    return -(Cc * yc + moment)
+    return max(-(Cc * yc + moment), 0.0)
 
 
 def solve_flexure(
@@ -191,11 +201,12 @@ def solve_flexure(
     def states(c: float) -> tuple[float, float, float, list[BarState]]:
         a = beta1 * c
         area, first = _block(outline, a)
+        k = _displaced_scale(bars, a, area)
         out = []
         for b in bars:
             strain = eps_cu * (c - b.depth) / c
             stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
-            displaced = fcd * b.area * _overlap(b, a)
+            displaced = k * fcd * b.area * _overlap(b, a)
             out.append(BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced))
         return a, area, first, out
 
@@ -215,7 +226,9 @@ def solve_flexure(
     y_C = (Cc * yc + sum(f * y for f, y in comp)) / C_total if C_total > 0 else 0.0
     T = sum(f for f, _ in tens)
     y_T = sum(f * y for f, y in tens) / T if T > 0 else 0.0
-    Mr = -(Cc * yc + sum(s.force * s.bar.depth for s in st))
+    # Never below zero: only a physically impossible layout (bars over-filling the concrete
+    # round them) could make the internal couple act the wrong way; it then resists nothing.
+    Mr = max(-(Cc * yc + sum(s.force * s.bar.depth for s in st)), 0.0)
     residual = Cc + sum(s.force for s in st)
     return FlexureSolution(
         Mr=Mr, c=c, a=a, d=d, Cc=Cc, yc=yc, block_area=area, C_total=C_total, y_C=y_C, T=T,
