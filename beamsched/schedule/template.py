@@ -82,6 +82,12 @@ def write_template(path: str | Path) -> Path:
             cell.comment = comment
             ws.column_dimensions[get_column_letter(i)].width = max(9, min(24, len(col.header()) + 3))
         ws.freeze_panes = ws.cell(row=HEADER_ROW + 1, column=2)
+        # print set-up: landscape, one page wide, the title and header rows on every page
+        ws.page_setup.orientation = "landscape"
+        ws.page_setup.paperSize = ws.PAPERSIZE_TABLOID
+        ws.page_setup.fitToWidth, ws.page_setup.fitToHeight = 1, 0
+        ws.sheet_properties.pageSetUpPr.fitToPage = True
+        ws.print_title_rows = f"1:{HEADER_ROW}"
         first, last = HEADER_ROW + 1, HEADER_ROW + DATA_ROWS
         lists = wb.create_sheet("Lists")  # long example lists live here (a list formula is limited in length)
         lists.sheet_state = "hidden"
