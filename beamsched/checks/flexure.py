@@ -40,7 +40,8 @@ def demand(ctx: SpanContext, sense: Sense, location: Location) -> float | None:
 def cases(ctx: SpanContext) -> list[tuple[Sense, Location]]:
     """The flexural sections this span must be checked at."""
     inp = ctx.inp
-    out: list[tuple[Sense, Location]] = [("pos", "mid")]
+    cantilever = "free" in (inp.left_end, inp.right_end)
+    out: list[tuple[Sense, Location]] = [] if cantilever and inp.Mf_pos is None else [("pos", "mid")]
     for end in ("left", "right"):
         if inp.end_condition(end) == "continuous" or demand(ctx, "neg", end) is not None:  # type: ignore[arg-type]
             out.append(("neg", end))  # type: ignore[arg-type]
@@ -222,7 +223,17 @@ def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase)
 
 
 def run(ctx: SpanContext) -> None:
-    """Every flexural check of the span, in reading order: midspan, then each support."""
+    """Every flexural check of the span, in reading order: midspan, then each support.
+
+    A cantilever (one end free) with no Mf+ scheduled hogs along its whole length under
+    gravity load: midspan sagging is then reported as not checked but not required."""
+    inp = ctx.inp
+    if "free" in (inp.left_end, inp.right_end) and inp.Mf_pos is None:
+        clause = ctx.code.clauses["flexure"]
+        ctx.add(CheckResult("flexure_pos", "Flexure +", "mid", clause, CheckStatus.NOT_CHECKED,
+                            f"Cantilever with no Mf+ scheduled: a cantilever under gravity load hogs along its "
+                            f"length, so sagging at midspan was not checked (cl. {clause}). Schedule Mf+ if the "
+                            f"span can sag (uplift, load reversal).", unit="kN·m", required=False))
     for sense, loc in cases(ctx):
         case = _flexure(ctx, sense, loc)
         if case is None:
