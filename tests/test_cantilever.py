@@ -36,3 +36,16 @@ def test_a_simple_span_still_needs_mf_pos():
     args = dict(CANTILEVER, right_end="simple", left_end="simple", top=None)
     r = check_span(Vf=150, **args)
     assert keys(r)["flexure_pos@mid"].required and r.status.value == "incomplete"
+
+
+def test_deep_member_question_stays_open_without_a_clear_span():
+    # CSA A23.3-19 cl. 10.7.1 uses the clear span; with only the c/c span (longer) and span/h within
+    # twice the limit, beamsched leaves the span incomplete rather than pass on the longer length
+    # (beamsched policy).
+    # (no Mf+: the shear-span estimate, a separate reason, stays out of the way)
+    args = dict(shape="rect", bw=400, h=700, fc=30, fy=400, bottom="4-25M", stirrups="10M@200", Vf=60)
+    open_ = check_span(span=1500, **args)  # 1500/700 = 2.14 < 2 x 1.25 (simple span)
+    c = keys(open_)["scope_deep"]
+    assert c.status.value == "not_checked" and c.required and "schedule the clear span" in c.message
+    decided = check_span(span=1500, clear_span=1100, **args)  # 1100/700 = 1.57 >= 1.25: not deep by ratio
+    assert "only the centre-to-centre span" not in keys(decided)["scope_deep"].message

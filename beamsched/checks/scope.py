@@ -47,11 +47,18 @@ def shear_span(mf_pos: float, mf_neg_end: float, vf_end: float, vf_other: float 
     return a1, "(Mf+ + Mf-) / Vf at that end: the moment over the shear"
 
 
+# beamsched policy: with only the centre-to-centre span scheduled, a span/h below this multiple of
+# the deep-member limit leaves the question open (the clear span is shorter by the supports'
+# width, unknown here), rather than passing on the longer, unconservative length.
+UNKNOWN_CLEAR_MARGIN = 2.0
+
+
 def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
     inp, t = ctx.inp, ctx.add_trace
     c_deep, c_ss = ctx.code.clauses["deep_member"], ctx.code.clauses["deep_shear_span"]
     clause = f"{c_deep}, {c_ss}"
     reasons: list[str] = []
+    reasons_unknown: list[str] = []
     made: list[str] = []
     ln = inp.clear_span if inp.clear_span is not None else inp.span
     continuous = inp.left_end != "simple" or inp.right_end != "simple"
@@ -64,6 +71,11 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
         if ratio < limit:
             reasons.append(f"ℓn/h = {ratio:.2f} < {limit:g}: a deep flexural member (cl. {c_deep}); design it for the "
                            "nonlinear strain distribution and lateral buckling, e.g. by strut-and-tie (cl. 11.4)")
+        elif inp.clear_span is None and ratio < UNKNOWN_CLEAR_MARGIN * limit:
+            reasons_unknown.append(
+                f"only the centre-to-centre span is scheduled and span/h = {ratio:.2f} is within "
+                f"{UNKNOWN_CLEAR_MARGIN:g} × {limit:g}: the clear span, shorter by the supports' width, may fall below "
+                f"the deep-member limit of cl. {c_deep}; schedule the clear span")
         else:
             made.append(f"ℓn/h = {ratio:.2f} ≥ {limit:g}")
     flex = ctx.flexure("pos", "mid")
@@ -90,6 +102,9 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
     if reasons:
         ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
                             "Outside sectional design: " + "; ".join(reasons) + ". beamsched does not check it."))
+    elif reasons_unknown:
+        ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
+                            "Whether this is a deep flexural member is unknown: " + "; ".join(reasons_unknown) + "."))
     elif ln is None:
         ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
                             f"Whether this is a deep flexural member (cl. {c_deep}) is unknown: no span length is "
