@@ -140,6 +140,30 @@ def whole_grid(tmp):
     return with_sheet(tmp, "level3.xlsx", xml)
 
 
+def stale_dimension(tmp):
+    """A dimension that under-states the used range: openpyxl's read-only mode would drop every
+    row past it without a word (3 of these 5 spans)."""
+    import re
+
+    src = hs.workbook(tmp / "base.xlsx", [hs.row(f"B{i}") for i in range(1, 6)])
+    xml = re.sub(rb'<dimension ref="[^"]*"', b'<dimension ref="A1:R3"', hs.members(src)["xl/worksheets/sheet1.xml"])
+    return hs.rezip(src, tmp / "level3.xlsx", {"xl/worksheets/sheet1.xml": xml})
+
+
+def whole_grid_utf16(tmp):
+    """The whole-grid dimension with the sheet in UTF-16, where a byte search would see nothing."""
+    import re
+
+    xml = re.sub(rb'<dimension ref="[^"]*"', b'<dimension ref="A1:XFD1048576"', sheet_xml(tmp))
+    return with_sheet(tmp, "level3.xlsx", ('<?xml version="1.0" encoding="UTF-16"?>' + xml.decode()).encode("utf-16"))
+
+
+def long_csv_line(tmp):
+    text = ",".join(hs.HEADER) + "\n" + ",".join(map(str, hs.GOOD)) + ',"' + "x" * 200_000 + '"\n'
+    (tmp / "level3.csv").write_text(text, encoding="utf-8")
+    return tmp / "level3.csv"
+
+
 def far_cell(tmp):
     def edit(wb):
         wb.active["XFD3"] = "stray"
@@ -246,6 +270,10 @@ CORPUS = [
                                           "--max-ratio"]),
     ("whole-grid dimension", whole_grid, [], ["sheet 'Beams' reaches row 1,048,576", "row limit of 250,000",
                                               "--max-rows"]),
+    ("stale used range", stale_dimension, [], ["declares that its cells end at R3", "as far as row 6",
+                                                "would silently miss", "save it"]),
+    ("whole grid, UTF-16", whole_grid_utf16, [], ["reaches row 1,048,576", "--max-rows"]),
+    ("CSV line too long", long_csv_line, [], ["line 2 of the CSV file is 200,", "ask for the schedule again"]),
     ("stray cell far right", far_cell, [], ["sheet 'Beams' reaches column XFD (column 16,384)",
                                             "column limit of 1,000", "--max-columns"]),
     ("duplicate parts", duplicate_part, [], ["two parts named 'xl/worksheets/sheet1.xml'"]),
@@ -455,3 +483,15 @@ def test_the_help_shows_the_limits_in_force(capsys):
     out = " ".join(capsys.readouterr().out.split())
     for _, option, _, _, text, _ in cli.LIMIT_OPTIONS:
         assert option in out and f"(default {text})" in out
+
+
+def test_formatted_empty_rows_past_the_used_range_are_not_a_stale_range(tmp_path, capsys):
+    """Excel writes a <row> for a row given a height or format, with no cells, past the used
+    range: nothing is lost by reading such a file, so it is read (and checked)."""
+    src = hs.workbook(tmp_path / "base.xlsx", [hs.GOOD, hs.FAILING])
+    xml = hs.members(src)["xl/worksheets/sheet1.xml"].replace(
+        b"</sheetData>", b'<row r="200" spans="1:18" ht="20" customHeight="1"/></sheetData>')
+    fmt = hs.rezip(src, tmp_path / "level3.xlsx", {"xl/worksheets/sheet1.xml": xml})
+    assert inspect_file(fmt) == "workbook"
+    assert cli.main(["check", str(fmt)]) == 1
+    assert "1 PASS, 1 FAIL" in capsys.readouterr().out

@@ -27,6 +27,7 @@ confirms; the DOCTYPE check here is a second, independent line of defence.
 
 from __future__ import annotations
 
+import codecs
 import re
 import struct
 import zipfile
@@ -71,6 +72,9 @@ RATIO_FLOOR = 1 * MB
 # Deflate cannot compress better than about 1032:1 (zlib technical details, from memory), so a
 # ratio of 100 leaves real workbooks (about 10:1 for schedule data, measured) well inside.
 
+# Python's csv module refuses a field longer than 131,072 characters (csv.field_size_limit()):
+# no line of a schedule comes near it. Excel's cell limit, 32,767 characters, from memory.
+CSV_LINE_LIMIT = 131_072
 PROLOG_LIMIT = 64 * 1024  # the root element of an XML part must start within its first 64 KiB
 CHUNK = 1 << 20
 OLE2_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"  # [MS-CFB] 2.2 header signature
@@ -168,6 +172,8 @@ def _ceil(x: float) -> int:
 # -- what a file is, when it is not a zip package ----------------------------------------------------
 def _not_a_workbook(name: str, suffix: str, head: bytes) -> None:
     named = f"named {suffix}" if suffix else "with no extension"
+    if suffix == ".xls" or head.startswith(OLE2_MAGIC[:4]):
+        _fail(name, LEGACY_XLS.format(renamed="" if suffix == ".xls" else f" named {suffix}"))
     stripped = head.lstrip(b"\xef\xbb\xbf \t\r\n").lower()
     if stripped.startswith(b"%pdf"):
         _fail(name, f"this is a PDF document {named}, not a workbook: ask for the schedule as .xlsx or .csv")
@@ -181,7 +187,7 @@ def _not_a_workbook(name: str, suffix: str, head: bytes) -> None:
         _fail(name, f"this is an RTF document {named}, not a workbook: ask for the schedule as .xlsx or .csv")
     if _looks_like_text(head):
         first = head.decode("utf-8", "replace").splitlines()[0][:40] if head.strip() else ""
-        _fail(name, f"this is a text file {named} (it begins '{first}'), not an .xlsx workbook: if it is a CSV "
+        _fail(name, f"this is a text file {named} (it begins '{first}'), not an .xlsx/.xlsm workbook: if it is a CSV "
                     "export, rename it .csv; otherwise save the schedule from the spreadsheet as .xlsx")
     _fail(name, f"this is not a workbook beamsched reads (its first bytes are {head[:8].hex(' ')}, not a zip "
                 "package): save the schedule as .xlsx, or export it as .csv")
@@ -252,6 +258,10 @@ def _sector(data: bytes, s: int, ssize: int, shift: int) -> bytes:
     return block
 
 
+LEGACY_XLS = ("this is a legacy Excel 97-2003 workbook (.xls){renamed}: the .xls format is not read; open it and "
+              "save it as .xlsx (or export the schedule as .csv)")
+
+
 def _ole2(p: Path, name: str, suffix: str) -> None:
     try:
         names = {n.lower() for n in ole2_names(p.read_bytes())}
@@ -262,8 +272,7 @@ def _ole2(p: Path, name: str, suffix: str) -> None:
         _fail(name, "this workbook is password-protected (encrypted), so it cannot be read: open it with its "
                     "password, remove the password to open, save a copy as .xlsx, and check the copy")
     if "workbook" in names or "book" in names:
-        _fail(name, f"this is a legacy Excel 97-2003 workbook (.xls){renamed}, which beamsched does not read: "
-                    "open it and save it as .xlsx (or export the schedule as .csv)")
+        _fail(name, LEGACY_XLS.format(renamed=renamed))
     if "worddocument" in names:
         _fail(name, f"this is a Word document (.doc){renamed}, not a workbook: ask for the schedule as .xlsx or .csv")
     if "powerpoint document" in names:
@@ -446,6 +455,7 @@ def _bounded_read(z: zipfile.ZipFile, member: str, limit: int = 16 * MB) -> byte
 _DIMENSION = re.compile(rb'<(?:\w+:)?dimension\s+ref\s*=\s*"([A-Z]*)(\d*)(?::([A-Z]*)(\d*))?"')
 _REF_ROW = re.compile(rb'\sr\s*=\s*"[A-Z]{0,3}(\d{1,8})"')  # the row of a <row r="12"> or a <c r="AB12">
 _REF_COL = re.compile(rb'\sr\s*=\s*"([A-Z]{1,3})\d')  # the column of a <c r="AB12">
+_REF_CELL_ROW = re.compile(rb'\sr\s*=\s*"[A-Z]{1,3}(\d{1,8})"')  # the row of a <c r="AB12"> only
 _ENCODING = re.compile(rb"""^<\?xml[^>]*?\bencoding\s*=\s*["']([A-Za-z0-9._-]+)["']""")
 _SAFE_ENCODINGS = {"utf-8", "utf8", "utf-16", "utf16", "utf-16le", "utf-16be", "us-ascii", "ascii"}
 
@@ -476,7 +486,7 @@ def _scan_parts(z: zipfile.ZipFile, name: str, infos: list[zipfile.ZipInfo], she
             continue
         extent = _scan_xml(z, info, name, measure=is_sheet)
         if is_sheet and extent is not None:
-            rows, cols = extent
+            rows, cols = extent.reach
             title = titles[sheet_names[low]] if sheet_names[low] < len(titles) else fn
             if rows > limits.rows:
                 _fail(name, _over(f"sheet '{title}' reaches row {rows:,}", f"{limits.rows:,} rows", "rows",
@@ -484,6 +494,12 @@ def _scan_parts(z: zipfile.ZipFile, name: str, infos: list[zipfile.ZipInfo], she
             if cols > limits.columns:
                 _fail(name, _over(f"sheet '{title}' reaches column {_letters(cols)} (column {cols:,})",
                                   f"{limits.columns:,} columns", "columns", min(EXCEL_MAX_COLUMNS, int(cols * 1.2) + 1)))
+            if extent.stale:
+                _fail(name, f"sheet '{title}' declares that its cells end at {_letters(extent.dim_columns or 1)}"
+                            f"{extent.dim_rows}, but it holds cells as far as row {extent.cell_rows:,}, column "
+                            f"{_letters(extent.columns)} (a stale used range, as some export tools write): the "
+                            "spreadsheet library would silently miss what lies beyond; open the workbook in a "
+                            "spreadsheet program, save it, and check it again")
 
 
 def _sheet_titles(z: zipfile.ZipFile) -> list[str]:
@@ -512,14 +528,36 @@ def _drain(z: zipfile.ZipFile, info: zipfile.ZipInfo) -> None:
             pass
 
 
-def _scan_xml(z: zipfile.ZipFile, info: zipfile.ZipInfo, name: str, measure: bool) -> tuple[int, int] | None:
+@dataclass
+class Extent:
+    """How far a worksheet reaches: by its cells' references, and by its declared dimension."""
+
+    rows: int = 0  # the last row any <row> or <c> names
+    columns: int = 0
+    cell_rows: int = 0  # the last row a cell names (Excel writes empty, formatted <row>s past the used range)
+    dim_rows: int | None = None
+    dim_columns: int | None = None
+
+    @property
+    def reach(self) -> tuple[int, int]:
+        return max(self.rows, self.dim_rows or 0), max(self.columns, self.dim_columns or 0)
+
+    @property
+    def stale(self) -> bool:
+        """Cells beyond the declared dimension: openpyxl's read-only mode stops at the dimension
+        and would silently drop them."""
+        return self.dim_rows is not None and (self.cell_rows > self.dim_rows or self.columns > (self.dim_columns or 0))
+
+
+def _scan_xml(z: zipfile.ZipFile, info: zipfile.ZipInfo, name: str, measure: bool) -> Extent | None:
     """Read one XML part as a stream: refuse a DOCTYPE or an unusual encoding; for a worksheet,
-    return the last row and column that its dimension or any row/cell reference reaches."""
+    return how far its dimension and its row and cell references reach."""
     fn = info.filename
-    max_row = max_col = 0
+    ext = Extent()
     prolog_done = False
     carry = b""
     head = b""
+    decoder = None
     with z.open(info) as fh:
         while True:
             chunk = fh.read(CHUNK)
@@ -534,30 +572,38 @@ def _scan_xml(z: zipfile.ZipFile, info: zipfile.ZipInfo, name: str, measure: boo
                     _fail(name, f"the part '{fn}' {verdict}: workbooks never carry one, and beamsched does not read "
                                 "a file that does (it could expand or fetch content): ask for the file again")
                 prolog_done = True
+                if _is_utf16(head):
+                    decoder = codecs.getincrementaldecoder("utf-16")("replace")
                 chunk, head = head, b""
             if not chunk:
                 break
             if measure:
+                if decoder is not None:
+                    chunk = decoder.decode(chunk).encode("utf-8")
                 text = carry + chunk
-                if max_row == 0 and max_col == 0:
+                if ext.dim_rows is None:
                     d = _DIMENSION.search(text)
                     if d:
-                        for letters, digits in ((d.group(1), d.group(2)), (d.group(3), d.group(4))):
-                            if letters:
-                                max_col = max(max_col, column_number(letters.decode()))
-                            if digits:
-                                max_row = max(max_row, int(digits))
+                        first = (d.group(1), d.group(2))
+                        last = (d.group(3), d.group(4)) if d.group(3) is not None else first
+                        ext.dim_columns = column_number(last[0].decode()) if last[0] else EXCEL_MAX_COLUMNS
+                        ext.dim_rows = int(last[1]) if last[1] else EXCEL_MAX_ROWS
                 # distinct values first: a sheet repeats each row number and column letter many times
-                max_row = max([max_row, *map(int, set(_REF_ROW.findall(text)))])
-                max_col = max([max_col, *(column_number(c.decode()) for c in set(_REF_COL.findall(text)))])
+                ext.rows = max([ext.rows, *map(int, set(_REF_ROW.findall(text)))])
+                ext.cell_rows = max([ext.cell_rows, *map(int, set(_REF_CELL_ROW.findall(text)))])
+                ext.columns = max([ext.columns, *(column_number(c.decode()) for c in set(_REF_COL.findall(text)))])
                 carry = text[-64:]
-    return (max_row, max_col) if measure else None
+    return ext if measure else None
+
+
+def _is_utf16(head: bytes) -> bool:
+    return head.startswith((b"\xff\xfe", b"\xfe\xff")) or (len(head) > 1 and b"\x00" in head[:4])
 
 
 def _prolog(head: bytes, at_end: bool) -> str | None:
     """'' when the XML prolog is safe, a reason when it is not, None when more bytes are needed."""
     text = head
-    if text.startswith((b"\xff\xfe", b"\xfe\xff")) or (len(text) > 1 and b"\x00" in text[:4]):
+    if _is_utf16(text):
         enc = "utf-16-be" if text.startswith(b"\xfe\xff") or text[:1] == b"\x00" else "utf-16-le"
         try:
             text = text[:PROLOG_LIMIT * 2].decode(enc, "ignore").lstrip("\ufeff").encode("utf-8")
@@ -599,6 +645,10 @@ def _csv(p: Path, name: str, head: bytes, limits: Limits) -> None:
     with p.open("rb") as fh:
         for line in fh:
             rows += 1
+            if len(line) > CSV_LINE_LIMIT:
+                _fail(name, f"line {rows:,} of the CSV file is {len(line):,} characters long, longer than the "
+                            f"{CSV_LINE_LIMIT:,} a CSV reader takes (a spreadsheet cell holds at most 32,767): "
+                            "this is not a schedule export; ask for the schedule again")
             width = max(line.count(b","), line.count(b";"), line.count(b"\t")) + 1
             widest = max(widest, width)
             if rows > limits.rows:
