@@ -10,7 +10,10 @@ Properties:
   names the row and a column; every cell holding a value that cannot be read (text in a number
   column, NaN, a date, TRUE, a formula with no saved result, a cached #DIV/0!, bad bar or
   stirrup notation, a word that is not one of the choices) gives a problem naming its column;
-  a row with no such cell is read and checked, and the check gives no NaN.
+  a row with no such cell is read and checked, and the check gives no NaN;
+* one value out of the range the standard allows (f'c outside 20 to 80 MPa, fy over 500 MPa,
+  a size of zero or less, a negative Mf+ or cover) in an otherwise clean row fails the row, with a
+  problem naming that column.
 
 CI runs a bounded number of examples; BEAMSCHED_FUZZ_EXAMPLES=2000 runs more.
 """
@@ -135,11 +138,11 @@ VALID = {
 
 
 @st.composite
-def rows(draw):
+def rows(draw, junk_allowed: bool = True):
     cells, junk = [], []
     for label in HEADER:
         kind = KIND.get(label, "number")
-        if label not in ("Mark", "Notes") and draw(st.integers(0, 7)) == 0:
+        if junk_allowed and label not in ("Mark", "Notes") and draw(st.integers(0, 7)) == 0:
             v = draw(st.sampled_from(JUNK[kind]))
             junk.append(label)
         else:
@@ -173,3 +176,27 @@ def test_any_row_becomes_a_span_or_named_problems(case, number):
     result = check_beam(r)
     for c in result.checks:
         assert not any(isinstance(x, float) and math.isnan(x) for x in (c.demand, c.capacity, c.utilisation)), c
+
+
+# One value the standard or the schedule contract does not allow, in a row that is otherwise clean:
+# the row fails, and a problem names that column.
+OUT_OF_RANGE = {
+    "bw (mm)": st.floats(-1000, 0), "h (mm)": st.floats(-1000, 0),
+    "f'c (MPa)": st.floats(81, 150) | st.floats(0.1, 19.9),  # CSA A23.3-19 cl. 8.6.1.1: 20 to 80 MPa (from memory)
+    "fy (MPa)": st.floats(501, 2000),  # cl. 8.5.1: fy not over 500 MPa (from memory)
+    "Mf+ (kN·m)": st.floats(-1000, -0.01),  # the contract: hogging belongs in Mf- (issue 3)
+    "Cover (mm)": st.floats(-100, -0.01), "Agg (mm)": st.floats(-50, 0), "Span (m)": st.floats(-20, 0),
+}
+
+
+@FUZZ
+@given(rows(junk_allowed=False), st.sampled_from(sorted(OUT_OF_RANGE)), st.data())
+def test_a_value_out_of_range_is_named(case, label, data):
+    cells, _ = case
+    value = data.draw(OUT_OF_RANGE[label].map(lambda x: round(x, 2)))
+    assume(value != 0 or label in ("bw (mm)", "h (mm)", "Agg (mm)", "Span (m)"))
+    cells = list(cells)
+    cells[HEADER.index(label)] = Cell(value)
+    r = convert_row(7, cells, HDR, Defaults(), CODE, SpanPosition(True, True, False))
+    assert isinstance(r, RowFailure), (label, value)
+    assert any(p.column == label and p.severity == "error" for p in r.problems), (label, [p.message for p in r.problems])
