@@ -68,6 +68,7 @@ LIMIT_OPTIONS = (
     ("sheets", "--max-sheets", "N", int, "200", "most sheets in a workbook"),
     ("rows", "--max-rows", "N", int, "250,000", "the last row a sheet (or a CSV file) may reach"),
     ("columns", "--max-columns", "N", int, "1,000", "the last column a sheet (or a CSV row) may reach"),
+    ("cells", "--max-cells", "N", int, "10,000,000", "most cells of one sheet, its last row times its last column"),
 )
 
 

@@ -164,6 +164,15 @@ def long_csv_line(tmp):
     return tmp / "level3.csv"
 
 
+def wide_and_long(tmp):
+    """Each limit on its own is kept (200,000 rows, 900 columns), but together they make a grid of
+    180 million cells for the spreadsheet library to fill in."""
+    import re
+
+    xml = re.sub(rb'<dimension ref="[^"]*"', b'<dimension ref="A1:AHP200000"', sheet_xml(tmp))
+    return with_sheet(tmp, "level3.xlsx", xml)
+
+
 def far_cell(tmp):
     def edit(wb):
         wb.active["XFD3"] = "stray"
@@ -201,6 +210,12 @@ def nested_archive(tmp):
 
 def docx(tmp):
     parts = {"[Content_Types].xml": b"<Types/>", "word/document.xml": b"<document/>"}
+    (tmp / "level3.xlsx").write_bytes(hs.zip_of(parts))
+    return tmp / "level3.xlsx"
+
+
+def opendocument(tmp):
+    parts = {"mimetype": b"application/vnd.oasis.opendocument.spreadsheet", "content.xml": b"<office/>"}
     (tmp / "level3.xlsx").write_bytes(hs.zip_of(parts))
     return tmp / "level3.xlsx"
 
@@ -282,6 +297,7 @@ CORPUS = [
     ("archive inside", nested_archive, [], ["holds an archive 'xl/media/more.zip'"]),
     ("Word document", docx, [], ["a Word document (.docx)"]),
     ("plain zip", plain_zip, [], ["a zip archive, not a workbook"]),
+    ("OpenDocument", opendocument, [], ["an OpenDocument file (.ods/.odt)", "save it as .xlsx"]),
     ("binary workbook", xlsb, [], ["Excel binary workbook (.xlsb)", "save it as .xlsx"]),
     ("web page", html, [], ["web page (HTML) named .xlsx", "save it as .xlsx"]),
     ("PDF", pdf, [], ["PDF document named .xlsx"]),
@@ -296,6 +312,8 @@ CORPUS = [
      ["package holds 9 parts", "--max-parts"]),
     ("sheet limit", lambda t: good(t, "level3.xlsx", extra_sheets=2), ["--max-sheets", "2"],
      ["the workbook has 3 sheets", "sheet limit of 2", "--max-sheets"]),
+    ("cell limit", wide_and_long, [], ["sheet 'Beams' spans 200,000 rows by 900 columns, 180,000,000 cells",
+                                       "cell limit of 10,000,000", "--max-cells"]),
     ("row limit", lambda t: hs.workbook(t / "level3.xlsx", [hs.row(f"B{i}") for i in range(5)]), ["--max-rows", "3"],
      ["reaches row 6", "row limit of 3", "--max-rows"]),
     ("missing file", missing, [], ["no such file"]),
