@@ -255,6 +255,12 @@ def wide_csv(tmp):
     return tmp / "level3.csv"
 
 
+def long_csv(tmp):
+    lines = [",".join(hs.HEADER)] + [",".join(map(str, hs.row(f"B{i}"))) for i in range(5)]
+    (tmp / "level3.csv").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    return tmp / "level3.csv"
+
+
 def missing(tmp):
     return tmp / "nowhere.xlsx"
 
@@ -304,6 +310,8 @@ CORPUS = [
     ("workbook named .csv", xlsx_named_csv, [], ["zip package (an .xlsx workbook?) named .csv", "rename it .xlsx"]),
     ("binary named .csv", binary_csv, [], ["binary file named .csv"]),
     ("CSV too wide", wide_csv, [], ["5,001 fields", "column limit of 1,000", "--max-columns"]),
+    ("CSV too long", lambda t: long_csv(t), ["--max-rows", "3"], ["more than 3 lines", "row limit of 3 rows",
+                                                                  "--max-rows"]),
     ("file size limit", lambda t: good(t, "level3.xlsx"), ["--max-file-mb", "0.001"],
      ["file-size limit of 0.001 MB", "--max-file-mb"]),
     ("decompressed size limit", lambda t: good(t, "level3.xlsx"), ["--max-unzipped-mb", "0.01"],
