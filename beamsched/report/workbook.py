@@ -415,7 +415,7 @@ class _Writer:
             self.status_cell(ws, n, 3, res.status)
             self.util_cell(ws, n, 4, x.utilisation, made=res.status is BeamStatus.ERROR or bool(res.checks))
             g = x.governing
-            ws.write_string(n, 5, g.label if g else "—", plain)
+            ws.write_string(n, 5, g.label if g else "—", wrap)  # wraps: the row height counts its lines
             ws.write_string(n, 6, LOCATION_WORDS[g.location] if g else "", f.get(align="center"))
             for j, c in enumerate(r.columns):
                 self.check_cell(ws, n, n_fixed + j, x.by_check[c.id], x.state[c.id])
