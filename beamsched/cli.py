@@ -370,11 +370,9 @@ def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None, demo: 
     err = err if err is not None else sys.stderr
     from .report import OutputError, Report, write_annotated, write_csv, write_json, write_results
     from .schedule import ScheduleError, read_schedule
-    from .schedule.guard import inspect_file
 
-    try:
-        inspect_file(plan.schedule, plan.limits)  # refuse a hostile or broken file before it is parsed
-        schedule = read_schedule(plan.schedule, sheet=plan.sheet)
+    try:  # read_schedule refuses a hostile or broken file (beamsched.schedule.guard) before parsing it
+        schedule = read_schedule(plan.schedule, sheet=plan.sheet, limits=plan.limits)
     except ScheduleError as exc:
         _show_traceback(plan.debug)
         print(f"beamsched: {one_line(exc)}", file=err)

@@ -521,3 +521,15 @@ def test_formatted_empty_rows_past_the_used_range_are_not_a_stale_range(tmp_path
     assert inspect_file(fmt) == "workbook"
     assert cli.main(["check", str(fmt)]) == 1
     assert "1 PASS, 1 FAIL" in capsys.readouterr().out
+
+
+def test_read_schedule_runs_the_guard_with_its_limits(tmp_path):
+    """The Python API is guarded as the command line is: read_schedule(..., limits=)."""
+    with pytest.raises(ScheduleError, match="holds a DOCTYPE"):
+        read_schedule(entity_bomb(tmp_path))
+    with pytest.raises(ScheduleError, match="password-protected"):
+        read_schedule(encrypted(tmp_path))
+    src = hs.workbook(tmp_path / "five.xlsx", [hs.row(f"B{i}") for i in range(5)])
+    with pytest.raises(ScheduleError, match="--max-rows"):
+        read_schedule(src, limits=Limits(rows=3))
+    assert len(read_schedule(src, limits=Limits(rows=10)).rows) == 5
