@@ -101,6 +101,9 @@ def read_workbook(path: Path) -> list[Grid]:
         for ws in wb.worksheets:
             rows: list[tuple[int, list[Cell]]] = []
             found: list[tuple[int, int, int, str]] = []
+            # read-only mode trusts the sheet's declared used range and would silently drop rows and
+            # columns past a stale one (some exporters write it wrong): measure the sheet instead
+            ws.reset_dimensions()
             for number, values in enumerate(ws.iter_rows(values_only=True), start=1):
                 cells = []
                 for j, v in enumerate(values):
@@ -151,6 +154,7 @@ def _saved_results(path: Path, grids: list[Grid], formulas: list[list[tuple[int,
                 continue
             wanted = {number for _, _, number, _ in found}
             saved: dict[int, tuple] = {}
+            ws.reset_dimensions()
             for number, values in enumerate(ws.iter_rows(values_only=True, max_row=max(wanted)), start=1):
                 if number in wanted:
                     saved[number] = values

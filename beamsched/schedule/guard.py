@@ -500,12 +500,6 @@ def _scan_parts(z: zipfile.ZipFile, name: str, infos: list[zipfile.ZipInfo], she
             if rows * cols > limits.cells:
                 _fail(name, _over(f"sheet '{title}' spans {rows:,} rows by {cols:,} columns, {rows * cols:,} cells",
                                   f"{limits.cells:,}", "cells", rows * cols * 1.2))
-            if extent.stale:
-                _fail(name, f"sheet '{title}' declares that its cells end at {_letters(extent.dim_columns or 1)}"
-                            f"{extent.dim_rows}, but it holds cells as far as row {extent.cell_rows:,}, column "
-                            f"{_letters(extent.columns)} (a stale used range, as some export tools write): the "
-                            "spreadsheet library would silently miss what lies beyond; open the workbook in a "
-                            "spreadsheet program, save it, and check it again")
 
 
 def _sheet_titles(z: zipfile.ZipFile) -> list[str]:
@@ -547,12 +541,6 @@ class Extent:
     @property
     def reach(self) -> tuple[int, int]:
         return max(self.rows, self.dim_rows or 0), max(self.columns, self.dim_columns or 0)
-
-    @property
-    def stale(self) -> bool:
-        """Cells beyond the declared dimension: openpyxl's read-only mode stops at the dimension
-        and would silently drop them."""
-        return self.dim_rows is not None and (self.cell_rows > self.dim_rows or self.columns > (self.dim_columns or 0))
 
 
 def _scan_xml(z: zipfile.ZipFile, info: zipfile.ZipInfo, name: str, measure: bool) -> Extent | None:
