@@ -296,7 +296,8 @@ class _Writer:
             ws.write_string(row, 0, "No span has a utilisation: nothing could be checked.", plain)
             row += 1
         wrap = f.get(text_wrap=True)
-        for x in worst:
+        def span_line(x, check: str, at: str) -> None:
+            """One span of the worst / incomplete tables: label, row, utilisation, status, check, note."""
             note = x.first_note
             ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), MAX_LINES))
             ws.write_string(row, 0, x.label, bold)
@@ -304,10 +305,13 @@ class _Writer:
                 ws.write_number(row, 1, x.result.row, f.get(num="0", align="center"))
             self.util_cell(ws, row, 2, x.utilisation)
             self.status_cell(ws, row, 3, x.status)
-            g = x.governing
-            ws.write_string(row, 4, g.label if g else "—", plain)
-            ws.write_string(row, 5, LOCATION_WORDS[g.location] if g else "", plain)
+            ws.write_string(row, 4, check, wrap)
+            ws.write_string(row, 5, at, plain)
             ws.write_string(row, 6, note, wrap)
+
+        for x in worst:
+            g = x.governing
+            span_line(x, g.label if g else "—", LOCATION_WORDS[g.location] if g else "")
             row += 1
         incomplete = r.incomplete(10)
         if incomplete:
@@ -323,15 +327,7 @@ class _Writer:
             row += 1
             for x in incomplete:
                 why = next((c for c in x.result.not_checked if c.required), None)
-                note = x.first_note
-                ws.set_row(row, LINE_HEIGHT * min(_lines(note, widths[6]), MAX_LINES))
-                ws.write_string(row, 0, x.label, bold)
-                if x.result.row is not None:
-                    ws.write_number(row, 1, x.result.row, f.get(num="0", align="center"))
-                self.util_cell(ws, row, 2, x.utilisation)
-                self.status_cell(ws, row, 3, x.status)
-                ws.write_string(row, 4, check_display(why) if why else "—", plain)
-                ws.write_string(row, 6, note, wrap)
+                span_line(x, check_display(why) if why else "—", "")
                 row += 1
         row += 1
         ws.write_string(row, 0, "Legend", section)

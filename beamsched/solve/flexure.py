@@ -106,6 +106,16 @@ def _displaced_scale(bars: tuple[SolverBar, ...], a: float, block_area: float) -
     return 1.0 if displaced <= block_area else block_area / displaced
 
 
+def _bar_state(b: SolverBar, c: float, a: float, k: float, fcd: float, fy: float, phi_s: float, Es: float,
+               eps_cu: float) -> BarState:
+    """One bar at neutral-axis depth c: strain, stress (capped at fy; zero for an untied bar) and
+    force phi_s As fs less the concrete it displaces (scaled by k, see _displaced_scale)."""
+    strain = eps_cu * (c - b.depth) / c
+    stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
+    displaced = k * fcd * b.area * _overlap(b, a)
+    return BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced)
+
+
 def _neutral_axis(
     outline: tuple[Rect, ...], bars: tuple[SolverBar, ...], fcd: float, fy: float, phi_s: float, Es: float,
     beta1: float, eps_cu: float, fyd: float, As: float,
@@ -169,12 +179,7 @@ def moment_resistance(
     Cc = fcd * area
     yc = first / area if area > 0 else 0.0
     k = _displaced_scale(bars, a, area)
-    moment = 0.0
-    for b in bars:
-        strain = eps_cu * (c - b.depth) / c
-        stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
-        force = phi_s * b.area * stress - k * fcd * b.area * _overlap(b, a)
-        moment += force * b.depth
+    moment = sum(_bar_state(b, c, a, k, fcd, fy, phi_s, Es, eps_cu).force * b.depth for b in bars)
     return max(-(Cc * yc + moment), 0.0)
 
 
@@ -202,13 +207,7 @@ def solve_flexure(
         a = beta1 * c
         area, first = _block(outline, a)
         k = _displaced_scale(bars, a, area)
-        out = []
-        for b in bars:
-            strain = eps_cu * (c - b.depth) / c
-            stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
-            displaced = k * fcd * b.area * _overlap(b, a)
-            out.append(BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced))
-        return a, area, first, out
+        return a, area, first, [_bar_state(b, c, a, k, fcd, fy, phi_s, Es, eps_cu) for b in bars]
 
     trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
     if As <= 0:
