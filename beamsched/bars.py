@@ -30,7 +30,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Bar:
     """One bar size: designation, nominal diameter db (mm) and nominal area (mm²)."""
 
@@ -71,7 +71,7 @@ def bar(size: str) -> Bar:
     return CATALOGUE[key]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class BarGroup:
     """``count`` bars of one size in one layer."""
 
@@ -86,7 +86,7 @@ class BarGroup:
         return f"{self.count}-{self.bar.size}"
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class BarLayer:
     """The bars of one layer; they rest side by side on the same line at the face."""
 
@@ -108,7 +108,7 @@ class BarLayer:
         return " + ".join(str(g) for g in self.groups)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class BarArrangement:
     """Bars at one face, layer by layer; ``layers[0]`` is nearest the face."""
 
@@ -134,7 +134,7 @@ class BarArrangement:
         return " / ".join(str(layer) for layer in self.layers)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Stirrups:
     """Closed stirrups: bar size, number of vertical legs, spacing s (mm)."""
 

@@ -37,7 +37,7 @@ class BeamStatus(str, Enum):
     ERROR = "error"
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Problem:
     """Something wrong with the input: where it is, what was found and what was expected."""
 
@@ -48,7 +48,7 @@ class Problem:
     severity: Literal["error", "warning"] = "error"
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class BeamInput:
     """One span of one beam, in engine units (mm, MPa, N, N·mm).
 
@@ -129,7 +129,7 @@ class BeamInput:
         return self.left_end if end == "left" else self.right_end
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class TraceLine:
     """One line of working: what, its symbol, value and unit, and the clause it comes from."""
 
@@ -142,7 +142,7 @@ class TraceLine:
     description: str
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class CheckResult:
     """One check at one location, in display units (kN, kN·m, mm, mm², N/mm)."""
 
@@ -163,7 +163,7 @@ class CheckResult:
         return self.id if self.location is None else f"{self.id}@{self.location}"
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class BeamResult:
     """Everything known about one span after checking: the report writers read only this."""
 
@@ -211,7 +211,7 @@ def beam_status(checks: tuple[CheckResult, ...] | list[CheckResult]) -> BeamStat
     return BeamStatus.PASS
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class RowFailure:
     """A schedule row that could not be turned into a :class:`BeamInput`."""
 
@@ -221,7 +221,7 @@ class RowFailure:
     problems: tuple[Problem, ...]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Schedule:
     """A whole schedule as read: every row in schedule order, and what the reader saw."""
 

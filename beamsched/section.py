@@ -17,7 +17,7 @@ from .bars import BarArrangement
 Face = Literal["top", "bottom"]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Rect:
     """A band of the outline: from depth y0 to y1 below the compression face, ``width`` wide."""
 
@@ -26,7 +26,7 @@ class Rect:
     width: float
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Section:
     """Concrete outline: rectangular, T (flange both sides) or L (flange one side)."""
 
@@ -54,7 +54,7 @@ class Section:
         return sum((r.y1 - r.y0) * r.width for r in self.outline_from("top"))
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class PlacedBars:
     """Bars of one size in one layer, at one depth below their own face."""
 

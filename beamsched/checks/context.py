@@ -24,7 +24,7 @@ N_PER_KN = 1e3
 NMM_PER_KNM = 1e6
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class FlexureCase:
     """One flexural section: which bars are in tension and compression, and its solution."""
 

@@ -45,7 +45,7 @@ from .context import N_PER_KN, NMM_PER_KNM, End, SpanContext
 WHERE = {None: "over the span", "left": "at the left support", "right": "at the right support"}
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class TensionSide:
     face: Literal["top", "bottom"]
     bars: BarArrangement | None
@@ -75,7 +75,7 @@ def tension_side(ctx: SpanContext, end: End) -> TensionSide:
     return TensionSide("bottom", bars, name, mf_pos, f"Mf+ {end[0].upper()} (sagging at the support)")
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class EndShear:
     end: End
     side: TensionSide

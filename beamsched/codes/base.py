@@ -12,7 +12,7 @@ from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class StressBlock:
     """Equivalent rectangular stress block: intensity alpha1·phi_c·f'c over depth a = beta1·c."""
 
@@ -21,7 +21,7 @@ class StressBlock:
     eps_cu: float
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class FlangeWidth:
     """The effective flange width used, and why."""
 
@@ -34,7 +34,7 @@ class FlangeWidth:
     clause: str
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class MaterialError:
     field: str
     value: float
@@ -104,7 +104,7 @@ class DesignCode(ABC):
 # ==============================================================================================
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class ShearAngles:
     """β and θ for one section, and why (the rule and clause that set them)."""
 

@@ -21,7 +21,7 @@ from .roots import bracketed_root
 __all__ = ["SolverBar", "FlexureSolution", "BarState", "solve_flexure", "moment_resistance"]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class SolverBar:
     area: float  # mm²
     depth: float  # centre below the compression face (mm)
@@ -31,7 +31,7 @@ class SolverBar:
     tension_steel: bool = True  # True: part of the flexural tension steel (for d and c/d)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class BarState:
     bar: SolverBar
     strain: float  # compression positive
@@ -40,7 +40,7 @@ class BarState:
     displaced: float  # N: concrete force deducted for the area the bar displaces
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class FlexureSolution:
     Mr: float  # N·mm, factored resistance
     c: float  # neutral-axis depth (mm)

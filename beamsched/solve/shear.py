@@ -40,7 +40,7 @@ def crushing_limit(k: float, phi_c: float, fc: float, bw: float, dv: float) -> f
     return k * phi_c * fc * bw * dv
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class ShearResistance:
     vc: float
     vs: float
@@ -80,7 +80,7 @@ def corner_bar_offset(db: float, bend_inside_diameter: float) -> float:
     return max(bend_inside_diameter / 2.0, db / 2.0)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class LayerFit:
     inside: float  # clear width inside the stirrups (or between the covers) (mm)
     offset: float  # corner-bar centre in from that inside face (mm)
