@@ -8,7 +8,7 @@ flexural tension steel) without recomputing or reformatting anything.
 from __future__ import annotations
 
 import sys
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from typing import Literal
 
 from ..bars import BarArrangement
@@ -58,6 +58,9 @@ class SpanContext:
         self.understood: dict[str, str] = {}
         self.results: list[CheckResult] = []
         self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
+        # placed bars by (arrangement, face, explicit depth); the arrangements are the input's
+        # own, which this context keeps alive, so their ids are stable keys
+        self._placed: dict[tuple[int, str, float | None], tuple[PlacedBars, ...]] = {}
         self.flange: FlangeWidth | None = None
         bf = None
         if inp.shape in ("T", "L") and inp.hf is not None:
@@ -92,7 +95,11 @@ class SpanContext:
         if tension:
             d = inp.d_bottom if face == "bottom" else inp.d_top
             explicit = None if d is None else inp.h - d
-        return place_bars(bars, cover, self.stirrup_db, self.layer_clear, explicit)
+        key = (id(bars), face, explicit)
+        placed = self._placed.get(key)
+        if placed is None:  # the same bars are placed by several checks; the result is the same
+            placed = self._placed[key] = place_bars(bars, cover, self.stirrup_db, self.layer_clear, explicit)
+        return placed
 
     def add_trace(self, check: str, location: Location, symbol: str, value, unit: str, clause: str, description: str) -> None:
         if self.tracing:
@@ -103,7 +110,8 @@ class SpanContext:
         # results for 10,000 spans): one shared copy of each keeps a building's results small.
         message = sys.intern(result.message)
         if message is not result.message:
-            result = replace(result, message=message)
+            # the result is new and not yet shared: give it the shared copy of its text
+            object.__setattr__(result, "message", message)
         self.results.append(result)
         return result
 

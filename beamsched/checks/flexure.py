@@ -175,8 +175,9 @@ def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
         return moment_resistance(outline, bars, fc=inp.fc, fy=inp.fy, phi_c=ctx.phi_c, phi_s=ctx.phi_s,
                                  Es=ctx.code.Es, alpha1=sol.alpha1, beta1=sol.beta1, eps_cu=sol.eps_cu)
 
+    # k = 1 is the scheduled steel, whose Mr the case has already solved (the same arithmetic)
     lo, hi, f_lo = 0.0, 1.0, -mf
-    f_hi = mr(hi) - mf
+    f_hi = sol.Mr - mf
     while f_hi < 0:
         lo, f_lo = hi, f_hi
         hi *= 2

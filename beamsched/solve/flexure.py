@@ -122,24 +122,38 @@ def _neutral_axis(
 ) -> float:
     """The neutral-axis depth c (mm) at which the forces balance (the one root-find of the solver)."""
     h = max(r.y1 for r in outline)
-    areas = [b.area for b in bars]
-    depths = [b.depth for b in bars]
-    tops = [b.depth - b.db / 2 for b in bars]
-    counted = [b.counted for b in bars]
+    bands = tuple((r.y0, r.y1, r.width) for r in outline)
+    # per bar: area, depth, top of the bar (where the block edge starts to reach it), diameter, counted
+    steel = tuple((b.area, b.depth, b.depth - b.db / 2, b.db, b.counted) for b in bars)
+    acos, sin, two_pi = math.acos, math.sin, 2.0 * math.pi
 
     def imbalance(c: float) -> float:
-        """Net compression (N) at neutral-axis depth c; increases with c."""
+        """Net compression (N) at neutral-axis depth c; increases with c. (The arithmetic of
+        _block, _overlap and _bar_state, written out inline: this is the solver's inner loop.)"""
         a = beta1 * c
-        area, _ = _block(outline, a)
+        area = 0.0
+        for y0, y1, width in bands:
+            bottom = y1 if y1 < a else a
+            if bottom <= y0:
+                break
+            area += width * (bottom - y0)
         total = fcd * area
         displaced = 0.0
-        for i, b in enumerate(bars):
-            if counted[i]:
-                strain = eps_cu * (c - depths[i]) / c
-                total += phi_s * areas[i] * max(-fy, min(fy, Es * strain))
-            if a > tops[i]:
-                displaced += areas[i] * _overlap(b, a)
-        return total - fcd * min(displaced, area)
+        for area_i, depth, top, db, counted in steel:
+            if counted:
+                stress = Es * (eps_cu * (c - depth) / c)
+                total += phi_s * area_i * (fy if stress > fy else (-fy if stress < -fy else stress))
+            if a > top:
+                if db <= 0:
+                    displaced += area_i if depth < a else 0.0
+                    continue
+                t = (a - top) / db
+                if t >= 1.0:
+                    displaced += area_i
+                else:
+                    theta = 2.0 * acos(1.0 - 2.0 * t)
+                    displaced += area_i * ((theta - sin(theta)) / two_pi)
+        return total - fcd * (displaced if displaced < area else area)
 
     lo, hi = 1e-9 * h, h
     f_lo, f_hi = imbalance(lo), imbalance(hi)
@@ -179,7 +193,10 @@ def moment_resistance(
     Cc = fcd * area
     yc = first / area if area > 0 else 0.0
     k = _displaced_scale(bars, a, area)
-    moment = sum(_bar_state(b, c, a, k, fcd, fy, phi_s, Es, eps_cu).force * b.depth for b in bars)
+    moment = 0.0
+    for b in bars:  # _bar_state's force, without the state object
+        stress = max(-fy, min(fy, Es * (eps_cu * (c - b.depth) / c))) if b.counted else 0.0
+        moment += (phi_s * b.area * stress - k * fcd * b.area * _overlap(b, a)) * b.depth
     return max(-(Cc * yc + moment), 0.0)
 
 
