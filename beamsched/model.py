@@ -12,9 +12,12 @@ way in; results carry display units, kN and kN·m, in their field names or ``uni
 
 from __future__ import annotations
 
+from array import array
+from collections import OrderedDict
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from enum import Enum
-from typing import Literal
+from typing import Literal, overload
 
 from .bars import BarArrangement, Stirrups
 
@@ -163,6 +166,102 @@ class CheckResult:
         return self.id if self.location is None else f"{self.id}@{self.location}"
 
 
+_STATUS_CODES = {CheckStatus.PASS: 0, CheckStatus.FAIL: 1, CheckStatus.NOT_CHECKED: 2}
+_STATUSES = tuple(_STATUS_CODES)
+
+
+class PackedChecks(Sequence[CheckResult]):
+    """One span's check results, held compactly: a read-only sequence of :class:`CheckResult`.
+
+    A building's results are millions of checks; as objects each costs a few hundred bytes
+    (the result and its floats). Here a span keeps its numbers in one array, its statuses in
+    one bytes object and its texts as shared strings; what does not vary between spans (id,
+    label, location, clause, unit, required) is one shared tuple for every span with the same
+    list of checks. Reading it gives back results equal to the ones packed, field for field
+    and type for type (an int stays an int). The last few spans read are kept unpacked, as a
+    writer reads one span's checks several times in a row.
+    """
+
+    __slots__ = ("_kinds", "_status", "_messages", "_numbers", "_absent", "_ints")
+    _kind_lists: dict[tuple, tuple] = {}
+    _recent: OrderedDict[int, tuple[PackedChecks, tuple[CheckResult, ...]]] = OrderedDict()
+    KEEP = 64
+
+    def __init__(self, checks: Sequence[CheckResult]):
+        kinds = tuple((c.id, c.label, c.location, c.clause, c.unit, c.required) for c in checks)
+        self._kinds = PackedChecks._kind_lists.setdefault(kinds, kinds)
+        self._status = bytes(_STATUS_CODES[c.status] for c in checks)
+        self._messages = tuple(c.message for c in checks)
+        numbers = array("d")
+        absent = ints = 0
+        bit = 1
+        for c in checks:
+            for v in (c.demand, c.capacity, c.utilisation):
+                if v is None:
+                    absent |= bit
+                    numbers.append(0.0)
+                else:
+                    if type(v) is int:
+                        ints |= bit
+                    numbers.append(v)
+                bit <<= 1
+        self._numbers, self._absent, self._ints = numbers, absent, ints
+
+    def _value(self, k: int) -> float | int | None:
+        bit = 1 << k
+        if self._absent & bit:
+            return None
+        v = self._numbers[k]
+        return int(v) if self._ints & bit else v
+
+    def unpacked(self) -> tuple[CheckResult, ...]:
+        recent = PackedChecks._recent
+        hit = recent.get(id(self))
+        if hit is not None:  # the entry holds self, so its id cannot have been reused
+            recent.move_to_end(id(self))
+            return hit[1]
+        value = self._value
+        out = tuple(
+            CheckResult(cid, label, loc, clause, _STATUSES[status], message, value(3 * i), value(3 * i + 1), unit,
+                        value(3 * i + 2), required)
+            for i, ((cid, label, loc, clause, unit, required), status, message)
+            in enumerate(zip(self._kinds, self._status, self._messages, strict=True))
+        )
+        recent[id(self)] = (self, out)
+        if len(recent) > self.KEEP:
+            recent.popitem(last=False)
+        return out
+
+    def __len__(self) -> int:
+        return len(self._status)
+
+    @overload
+    def __getitem__(self, i: int) -> CheckResult: ...
+    @overload
+    def __getitem__(self, i: slice) -> tuple[CheckResult, ...]: ...
+    def __getitem__(self, i):
+        return self.unpacked()[i]
+
+    def __iter__(self) -> Iterator[CheckResult]:
+        return iter(self.unpacked())
+
+    def __eq__(self, other: object) -> bool:
+        if isinstance(other, Sequence) and not isinstance(other, (str, bytes)):
+            return self.unpacked() == tuple(other)
+        return NotImplemented
+
+    def __add__(self, other: object) -> tuple[CheckResult, ...]:
+        return self.unpacked() + tuple(other)  # type: ignore[arg-type]
+
+    def __radd__(self, other: object) -> tuple[CheckResult, ...]:
+        return tuple(other) + self.unpacked()  # type: ignore[arg-type]
+
+    __hash__ = None  # type: ignore[assignment]
+
+    def __repr__(self) -> str:
+        return f"PackedChecks({list(self.unpacked())!r})"
+
+
 @dataclass(frozen=True, slots=True)
 class BeamResult:
     """Everything known about one span after checking: the report writers read only this."""
@@ -171,7 +270,7 @@ class BeamResult:
     span_no: int | None
     row: int | None
     status: BeamStatus
-    checks: tuple[CheckResult, ...] = ()
+    checks: tuple[CheckResult, ...] | PackedChecks = ()
     values: dict[str, float | str | None] = field(default_factory=dict)
     trace: tuple[TraceLine, ...] = ()
     problems: tuple[Problem, ...] = ()

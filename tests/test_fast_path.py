@@ -16,7 +16,7 @@ import pytest
 
 from beamsched.codes import get_code
 from beamsched.engine import LazyTrace, check_beam, check_schedule
-from beamsched.model import BeamInput, BeamStatus, CheckResult, TraceLine
+from beamsched.model import BeamInput, BeamStatus, CheckResult, CheckStatus, PackedChecks, TraceLine
 from beamsched.schedule import read_schedule
 from beamsched.schedule.samples import generate_schedule
 
@@ -102,3 +102,41 @@ def test_eager_schedule_keeps_tuples(both):
     eager = check_schedule(schedule, lazy_trace=False)
     assert all(isinstance(r.trace, tuple) for r in eager)
     assert eager == fast  # BeamResult equality: every field, the trace through LazyTrace.__eq__
+
+
+def test_schedule_results_hold_their_checks_packed(both):
+    _, fast, _ = both
+    checked = [r for r in fast if r.status is not BeamStatus.ERROR]
+    assert checked and all(isinstance(r.checks, PackedChecks) for r in checked)
+    # spans with the same list of checks share one tuple of what does not vary between spans
+    kinds = {id(r.checks._kinds) for r in checked}
+    assert len(kinds) < len(checked) / 10
+
+
+def test_packed_checks_give_back_every_field_and_type():
+    made = (
+        CheckResult("flexure_pos", "Flexure +", "mid", "10.1", CheckStatus.PASS, "", 120.5, 250.0, "kN·m", 0.482),
+        CheckResult("bar_fit", "Bar fit", "mid", "A23.1", CheckStatus.FAIL, "too many bars", 5, 4, "bars", 1.25),
+        CheckResult("shear", "Shear", "left", "11.3", CheckStatus.NOT_CHECKED, "no Vf", None, 310.0, "kN", None),
+        CheckResult("min_steel_pos", "Min. steel +", "mid", "10.5", CheckStatus.FAIL, "none", 400.0, 0.0, "mm²",
+                    math.inf, required=False),
+    )
+    packed = PackedChecks(made)
+    assert len(packed) == 4 and packed == made and made == packed
+    for got, ref in zip(packed, made, strict=True):
+        for f in fields(CheckResult):
+            assert same(getattr(got, f.name), getattr(ref, f.name)), (ref.id, f.name)
+    assert packed[1].demand == 5 and type(packed[1].demand) is int  # an int stays an int
+    assert packed[2].demand is None and packed[2].utilisation is None
+    assert packed[-1].utilisation == math.inf and packed[-1].required is False
+    assert packed[1:3] == made[1:3]
+    assert packed + made[:1] == made + made[:1] and made[:1] + packed == made[:1] + made
+
+
+def test_packed_checks_read_again_after_many_others_are_the_same(both):
+    _, fast, reference = both
+    spans = [(g, r) for g, r in zip(fast, reference, strict=True) if r is not None]
+    first = tuple(spans[0][0].checks)
+    for g, _ in spans[1: 2 + PackedChecks.KEEP]:  # push the first out of the kept results
+        tuple(g.checks)
+    assert tuple(spans[0][0].checks) == first == spans[0][1].checks
