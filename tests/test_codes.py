@@ -25,9 +25,24 @@ def test_registry():
     (80.1, 400, None, ["f'c"]),
     (30, 501, None, ["fy"]),
     (30, 400, 600, ["fyt"]),
+    # not a limit of the standard: a plausibility floor of 200 MPa (reinforcing steel yields
+    # well above it; CSA G30.18 grades are 400 and 500 — common practice, from memory)
+    (30, 200, 200, []),
+    (30, 199, None, ["fy"]),
+    (30, 400, 60, ["fyt"]),
+    (30, 0, None, ["fy"]),
+    (30, -400, None, ["fy"]),
 ])
 def test_material_limits(fc, fy, fyt, fields):
     assert [e.field for e in get_code().material_errors(fc, fy, fyt)] == fields
+
+
+def test_fy_in_ksi_gets_a_unit_hint():
+    (e,) = get_code().material_errors(30, 60, None)
+    # NIST SP 811: 1 psi = 6.894 757 kPa, so 60 ksi = 413.7 MPa
+    assert "at least 200 MPa" in e.expected and "60 ksi = 414 MPa" in e.expected and "'fy (ksi)'" in e.expected
+    (e,) = get_code().material_errors(30, 400, 1.0)
+    assert "at least 200 MPa" in e.expected and "ksi" not in e.expected  # 1 MPa is no ksi value either
 
 
 class UnitFactors(CSAA23319):

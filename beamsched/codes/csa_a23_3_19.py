@@ -33,6 +33,9 @@ CLAUSES = {
 CLAUSES.update(DETAILING_CLAUSES)  # shear, detailing, serviceability and scope (issue 5)
 
 
+KSI_IN_MPA = 6.894757  # 1 ksi in MPa (NIST SP 811: 1 psi = 6.894 757 kPa)
+
+
 class CSAA23319(DesignCode, CSAA23319Detailing):
     id = "CSA A23.3-19"
     name = "CSA A23.3-19 Design of concrete structures"
@@ -40,6 +43,11 @@ class CSAA23319(DesignCode, CSAA23319Detailing):
     EPS_CU = 0.0035  # cl. 10.1.3
     FC_MIN, FC_MAX = 20.0, 80.0  # cl. 8.6.1.1
     FY_MAX = 500.0  # cl. 8.5.1
+    # Not a limit of the standard: a plausibility floor. Reinforcing steel yields at well over
+    # 200 MPa (CSA G30.18 grades are 400 and 500; older bars 300 and, rarely, about 230 —
+    # common practice, from memory), so a smaller fy is a unit slip (ksi) or a typing error,
+    # and checking with it would report a grossly wrong Mr.
+    FY_PLAUSIBLE_MIN = 200.0
     min_steel_exemption = 4.0 / 3.0  # cl. 10.5.1.3
     clauses = CLAUSES
 
@@ -63,10 +71,16 @@ class CSAA23319(DesignCode, CSAA23319Detailing):
         out = []
         if not (self.FC_MIN <= fc <= self.FC_MAX):
             out.append(MaterialError("f'c", fc, f"{self.FC_MIN:g} to {self.FC_MAX:g} MPa (cl. 8.6.1.1)"))
-        if not (0 < fy <= self.FY_MAX):
-            out.append(MaterialError("fy", fy, f"more than 0 and at most {self.FY_MAX:g} MPa (cl. 8.5.1)"))
-        if fyt is not None and not (0 < fyt <= self.FY_MAX):
-            out.append(MaterialError("fyt", fyt, f"more than 0 and at most {self.FY_MAX:g} MPa (cl. 8.5.1)"))
+        for name, value in (("fy", fy), ("fyt", fyt)):
+            if value is None:
+                continue
+            if not value <= self.FY_MAX:
+                out.append(MaterialError(name, value, f"at most {self.FY_MAX:g} MPa (cl. 8.5.1)"))
+            elif not value >= self.FY_PLAUSIBLE_MIN:
+                hint = (f"; {value:g} looks like ksi ({value:g} ksi = {value * KSI_IN_MPA:.0f} MPa): "
+                        f"say so in the header, e.g. '{name} (ksi)'") if 30 <= value <= 100 else ""
+                out.append(MaterialError(name, value, f"at least {self.FY_PLAUSIBLE_MIN:g} MPa: reinforcing steel "
+                                                      f"yields well above that{hint}"))
         return out
 
     def effective_flange_width(
