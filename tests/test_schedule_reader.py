@@ -328,3 +328,40 @@ def test_units_without_brackets_and_line_breaks_in_headers(label, key, unit):
 def test_the_psi_hint_names_the_column_it_is_about(tmp_path):
     (f,) = write(tmp_path, [row({"f'c (MPa)": 4000})]).failures
     assert "e.g. 'f'c (psi)'" in f.problems[0].message
+
+
+def test_a_beam_marked_l_right_under_the_header_is_a_row_not_sub_labels(tmp_path):
+    # a second header row holds L / R under headings; under the Mark it can only be data (found by
+    # the property test: a beam marked 'L' on the first row lost the Mark column)
+    s = write(tmp_path, [["L"] + [None] * (len(HEADER) - 1), row({"Mark": "R"})])
+    assert s.header_row == 1 and s.columns["mark"] == "Mark" and [b.mark for b in s.spans] == ["R"]
+    (f,) = s.failures
+    assert (f.mark, f.row) == ("L", 2) and "only the Mark is filled" in f.problems[0].message
+
+
+def test_equal_notation_is_one_object_and_bad_notation_fails_every_row_that_holds_it(tmp_path):
+    s = write(tmp_path, [row({"Mark": "A1"}), row({"Mark": "A2"}), row({"Mark": "A3", "Bottom bars": "4-25"}),
+                         row({"Mark": "A4", "Bottom bars": "4-25"})])
+    a1, a2 = s.spans
+    assert a1.bottom_bars is a2.bottom_bars and str(a1.bottom_bars) == "4-25M"
+    assert a1.stirrups is a2.stirrups and a1.top_bars_right is a2.top_bars_right
+    assert [(f.mark, [p.column for p in f.problems]) for f in s.failures] == [("A3", ["Bottom bars"]),
+                                                                              ("A4", ["Bottom bars"])]
+    assert [f.problems[0].message.split(":")[0] for f in s.failures] == ["row 4, 'Bottom bars' = '4-25'",
+                                                                        "row 5, 'Bottom bars' = '4-25'"]
+
+
+def test_the_fast_and_the_openpyxl_paths_give_the_same_schedule(tmp_path, monkeypatch):
+    from beamsched.schedule import cells
+    from beamsched.schedule.samples import generate_schedule
+
+    p = generate_schedule(tmp_path / "gen.xlsx", 150, seed=3)
+    fast = read_schedule(p)
+
+    def refuse(path):
+        raise RuntimeError("fast path off")
+
+    monkeypatch.setattr(cells, "read_workbook_calamine", refuse)  # read_workbook falls back to openpyxl
+    slow = read_schedule(p)
+    assert fast == slow and len(fast.rows) == 150
+    assert [getattr(r, "source", None) for r in fast.rows] == [getattr(r, "source", None) for r in slow.rows]

@@ -263,8 +263,8 @@ def join_subheader(header: list, sub: list) -> list | None:
         if part is None:
             continue
         base = str(top).strip() if top is not None else above
-        if base is None:
-            return None
+        if base is None or is_mark(base):
+            return None  # nothing above it, or under the Mark: a data row (a beam marked 'L'), not sub-labels
         m = _BRACKET.match(base)
         label = f"{m.group(1)} {part} ({m.group(2)})" if m else f"{base} {part}"
         out[i] = Cell(label)

@@ -17,7 +17,7 @@ from pathlib import Path
 
 from ..codes import DEFAULT_CODE, get_code
 from ..model import BeamInput, Problem, RowFailure, Schedule
-from .cells import Grid, ScheduleError, read_csv, read_workbook
+from .cells import Grid, ScheduleError, gc_paused, read_csv, read_workbook
 from .columns import BY_KEY, COLUMNS, join_subheader, norm
 from .parameters import PARAMETERS_SHEET_NAMES, Defaults, read_parameters
 from .rows import (
@@ -89,7 +89,11 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
     ``sheet`` names the schedule sheet; without it, the first sheet with a ``Mark`` header is
     used. The file is only read, never written.
     """
-    p = Path(path)
+    with gc_paused():  # see gc_paused: millions of live objects and no cycles
+        return _read_schedule(Path(path), sheet)
+
+
+def _read_schedule(p: Path, sheet: str | None) -> Schedule:
     if not p.exists():
         raise ScheduleError(f"{p}: no such file")
     if p.is_dir():
@@ -155,24 +159,34 @@ def read_schedule(path: str | Path, sheet: str | None = None) -> Schedule:
                                     BY_KEY[key].header(), None, header_row))
 
     body = grid.rows[body_at:]
-    # Span positions within each beam, for the Support shorthand.
+    sheet_name = grid.name
+    del grids, grid, params_grid, header_cells  # the rows are all that is still needed of the file
+    # Span positions within each beam, for the Support shorthand; mark and span of each row for
+    # the duplicates.
     spans_of: dict[str, list[int]] = {}
     mark_i, span_i = hdr.index["mark"], hdr.index.get("span_no")
+    keys: list[tuple[str | None, int | None]] = []
     for _, cells in body:
         m, s = _peek(cells, mark_i), _peek_int(cells, span_i)
+        keys.append((m, s))
         if m is not None and s is not None:
             spans_of.setdefault(m, []).append(s)
+    groups = _groups(keys)
+    repeated = {i for members in groups.values() if len(members) > 1 for i in members}
+    positions: dict[str, tuple[int, int, bool]] = {m: (min(k), max(k), len(set(k)) > 1) for m, k in spans_of.items()}
     rows: list[BeamInput | RowFailure] = []
-    for number, cells in body:
-        m, s = _peek(cells, mark_i), _peek_int(cells, span_i)
-        known = spans_of.get(m or "", [])
-        pos = SpanPosition(first=bool(known) and s == min(known), last=bool(known) and s == max(known),
-                           multi=len(set(known)) > 1)
+    for i, (number, cells) in enumerate(body):
+        m, s = keys[i]
+        lo, hi, multi = positions.get(m or "", (None, None, False))
+        pos = SpanPosition(first=lo is not None and s == lo, last=hi is not None and s == hi, multi=multi)
         rows.append(convert_row(number, cells, hdr, defaults, code, pos))
-    rows = _duplicates(rows, body, hdr)
+        if i not in repeated:
+            body[i] = (number, [])  # its cells are not compared again: free them
+    del keys, positions
+    rows = _duplicates(rows, body, hdr, groups)
     rows = _continuity(rows, hdr)
     return Schedule(
-        path=str(p), sheet=grid.name, header_row=None if is_csv else header_row, rows=tuple(rows),
+        path=str(p), sheet=sheet_name, header_row=None if is_csv else header_row, rows=tuple(rows),
         problems=tuple(problems), project=dict(defaults.project), code=code.id,
         units_assumed=tuple(hdr.units_assumed), columns=dict(hdr.labels), defaults=_defaults_words(defaults),
         file_sha256=sha, file_modified=modified,
@@ -235,15 +249,21 @@ def _continuity(rows: list[BeamInput | RowFailure], hdr) -> list[BeamInput | Row
     return out
 
 
-def _duplicates(rows: list[BeamInput | RowFailure], body, hdr) -> list[BeamInput | RowFailure]:
-    """Same mark and span twice: identical rows are a warning on each; different rows are an
-    error on both (a drafting error that would reach site)."""
+def _groups(keys: list[tuple[str | None, int | None]]) -> dict[tuple[str, int | None], list[int]]:
+    """The rows (indices) of each mark and span number; rows without a mark are in none."""
     groups: dict[tuple[str, int | None], list[int]] = {}
-    for i, (_number, cells) in enumerate(body):
-        m = _peek(cells, hdr.index["mark"])
-        if m is None:
-            continue
-        groups.setdefault((m, _peek_int(cells, hdr.index.get("span_no"))), []).append(i)
+    for i, (m, s) in enumerate(keys):
+        if m is not None:
+            groups.setdefault((m, s), []).append(i)
+    return groups
+
+
+def _duplicates(rows: list[BeamInput | RowFailure], body, hdr,
+                groups: dict[tuple[str, int | None], list[int]]) -> list[BeamInput | RowFailure]:
+    """Same mark and span twice: identical rows are a warning on each; different rows are an
+    error on both (a drafting error that would reach site). ``groups`` holds the rows of each
+    mark and span (:func:`_groups`); ``body`` keeps the cells of every row in a group of two
+    or more."""
     out = list(rows)
     for (_mark, span_no), members in groups.items():
         if len(members) < 2:

@@ -49,6 +49,46 @@ SUPPORTS = {
 SUPPORT_EXPECTED = "simple, one end continuous, both ends continuous or cantilever"
 
 
+class Shared:
+    """One object for equal values across the rows of one read: the texts, numbers, bar and
+    stirrup arrangements and lists of assumptions a schedule repeats row after row are kept
+    once, not once a row (a building's schedule holds a few hundred distinct values in 100,000
+    rows). Notation is parsed once per distinct text; a text that cannot be read keeps its
+    message, and each row that holds it gets its own error."""
+
+    __slots__ = ("texts", "numbers", "bars", "stirrups", "tuples")
+
+    def __init__(self) -> None:
+        self.texts: dict[str, str] = {}
+        self.numbers: dict[float, float] = {}
+        self.bars: dict[str, BarArrangement | str] = {}  # text -> arrangement, or the NotationError message
+        self.stirrups: dict[str, Stirrups | str] = {}
+        self.tuples: dict[tuple, tuple] = {}
+
+    def text(self, s: str) -> str:
+        return self.texts.setdefault(s, s)
+
+    def number(self, x: float) -> float:
+        # zero is left alone: -0.0 and 0.0 are equal keys, and the sign is kept as read
+        return self.numbers.setdefault(x, x) if x else x
+
+    def texts_tuple(self, items: list[str]) -> tuple[str, ...]:
+        t = tuple(self.text(x) for x in items)
+        return self.tuples.setdefault(t, t)
+
+    def parse(self, memo: dict, parse, s: str):
+        got = memo.get(s)
+        if got is None:
+            try:
+                got = parse(s)
+            except NotationError as exc:
+                got = str(exc)
+            memo[self.text(s)] = got
+        if isinstance(got, str):
+            raise NotationError(got)
+        return got
+
+
 @dataclass
 class Header:
     row: int | None
@@ -59,6 +99,7 @@ class Header:
     broken: dict[str, str] = field(default_factory=dict)  # column key -> why it cannot be read
     problems: list[Problem] = field(default_factory=list)
     units_assumed: list[str] = field(default_factory=list)
+    shared: Shared = field(default_factory=Shared, repr=False, compare=False)  # values shared by the rows
 
     def label(self, key: str) -> str:
         return self.labels.get(key) or BY_KEY[key].header()
@@ -156,10 +197,11 @@ class _Row:
                                      self.number))
 
     def _guard(self, key: str) -> Cell | None:
-        c = self.cell(key)
-        if c is None or c.blank:
+        if key not in self._filled:  # no such column, or a blank cell
             return None
-        self.source[self.hdr.label(key)] = str(c.value if c.formula is None or c.value is not None else c.formula)
+        c = self._by_key[key]
+        self.source[self.hdr.labels[key]] = self.hdr.shared.text(
+            str(c.value if c.formula is None or c.value is not None else c.formula))
         if key in self.hdr.broken:
             self.fail(key, c.value, "this column cannot be read", self.hdr.broken[key])
             return None
@@ -182,6 +224,7 @@ class _Row:
             return None
         if col.dimension:
             x *= self.hdr.factors[key]
+        x = self.hdr.shared.number(x)
         if fld:
             self.origin[fld] = (self.hdr.label(key), c.value)
         return x
@@ -234,7 +277,7 @@ class _Row:
             s = cv.text(c, "bar notation such as '4-25M'")
             if isinstance(c.value, (int, float)):
                 raise cv.CellError("a number, not bar notation", "bars as count-size, e.g. '4-25M'")
-            return parse_bars(s or "")
+            return self.hdr.shared.parse(self.hdr.shared.bars, parse_bars, s or "")
         except cv.CellError as exc:
             self.fail(key, c.value, exc.what, exc.expected)
         except NotationError as exc:
@@ -249,7 +292,7 @@ class _Row:
             s = cv.text(c, "stirrups such as '10M@200'")
             if isinstance(c.value, (int, float)):
                 raise cv.CellError("a number, not stirrup notation", "stirrups as '10M@200'")
-            return parse_stirrups(s or "")
+            return self.hdr.shared.parse(self.hdr.shared.stirrups, parse_stirrups, s or "")
         except cv.CellError as exc:
             self.fail(key, c.value, exc.what, exc.expected)
         except NotationError as exc:
@@ -310,6 +353,7 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
                 position: SpanPosition) -> BeamInput | RowFailure:
     """One schedule row -> a BeamInput, or a RowFailure listing every problem found in it."""
     r = _Row(number, cells, hdr, defaults)
+    shared = hdr.shared
     if r._filled == {"mark"}:
         label = hdr.label("mark")
         value = r.cell("mark").value  # type: ignore[union-attr]
@@ -422,24 +466,24 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
 
     # demands --------------------------------------------------------------------------
     mf_pos = r.num("mf_pos", "Mf_pos")
-    mf_neg = _magnitude(r.num("mf_neg"))
-    mf_neg_l = _magnitude(r.num("mf_neg_l"))
-    mf_neg_r = _magnitude(r.num("mf_neg_r"))
+    mf_neg = _magnitude(r.num("mf_neg"), shared)
+    mf_neg_l = _magnitude(r.num("mf_neg_l"), shared)
+    mf_neg_r = _magnitude(r.num("mf_neg_r"), shared)
     mf_pos_l = r.num("mf_pos_l", "Mf_pos_left")
     mf_pos_r = r.num("mf_pos_r", "Mf_pos_right")
-    vf = _magnitude(r.num("vf"))
-    vf_l = _magnitude(r.num("vf_l"))
-    vf_r = _magnitude(r.num("vf_r"))
-    tf = _magnitude(r.num("tf"))
+    vf = _magnitude(r.num("vf"), shared)
+    vf_l = _magnitude(r.num("vf_l"), shared)
+    vf_r = _magnitude(r.num("vf_r"), shared)
+    tf = _magnitude(r.num("tf"), shared)
     pf = r.num("pf")
     ms_pos = r.num("ms_pos")
     if ms_pos is not None and ms_pos < 0:
         r.fail("ms_pos", r.cell("ms_pos").value, "a negative service sagging moment",  # type: ignore[union-attr]
                "zero or more (hogging service moments belong in Ms-)")
-    ms_neg = _magnitude(r.num("ms_neg"))
-    notes = r.text("notes") or ""
+    ms_neg = _magnitude(r.num("ms_neg"), shared)
+    notes = shared.text(r.text("notes") or "")
 
-    mark_text = mark or ""
+    mark_text = shared.text(mark or "")
     if bw is None or h is None or fc is None or fy is None or shape is None:
         if fc is not None and fy is not None:  # the materials can still be judged
             r.problems += [_relabel(Problem(f"{e.field} = {e.value:g} MPa: expected {e.expected}", e.field, e.value),
@@ -459,7 +503,7 @@ def convert_row(number: int, cells: list[Cell], hdr: Header, defaults: Defaults,
         Mf_pos=mf_pos, Mf_neg_left=_first(mf_neg_l, mf_neg), Mf_neg_right=_first(mf_neg_r, mf_neg),
         Mf_pos_left=mf_pos_l, Mf_pos_right=mf_pos_r, Vf_left=_first(vf_l, vf), Vf_right=_first(vf_r, vf),
         Tf=tf, Pf=pf, Ms_pos=ms_pos, Ms_neg=ms_neg, skin_bars=skin, epoxy=epoxy, notes=notes,
-        assumed=tuple(r.assumed), warnings=tuple(r.warnings), source=dict(r.source),
+        assumed=shared.texts_tuple(r.assumed), warnings=tuple(r.warnings), source=r.source,
     )
     found = _validate_all(inp, code, r)
     if r.problems or found:
@@ -509,8 +553,8 @@ def _first(a, b):
     return a if a is not None else b
 
 
-def _magnitude(x: float | None) -> float | None:
-    return None if x is None else abs(x)
+def _magnitude(x: float | None, shared: Shared) -> float | None:
+    return None if x is None else x if x > 0 else shared.number(abs(x))
 
 
 def _flag(r: _Row, key: str, words: str) -> bool:
