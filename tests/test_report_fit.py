@@ -6,7 +6,7 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from beamsched.report.fit import column_points, text_width, wrapped_lines
+from beamsched.report.fit import LineCounter, column_points, text_width, wrapped_lines
 
 
 @pytest.mark.parametrize("text, points", [
@@ -57,3 +57,21 @@ def test_the_lines_hold_the_text(text, width):
     # the lines given, each as wide as the column, hold at least the text's width without its spaces
     lines = wrapped_lines(text, width)
     assert lines * column_points(width) >= text_width(text.replace(" ", "").replace("\n", "")) - 1e-6
+
+
+@given(st.lists(st.text(alphabet="abc MW0.,;()\n—×", max_size=200), max_size=30),
+       st.sampled_from([5.5, 8, 12.5, 17, 86, 110]), st.booleans(), st.integers(0, 2))
+def test_a_line_counter_answers_as_wrapped_lines(texts, width, bold, indent):
+    # the counter remembers what it has counted (and starts afresh when full): texts repeat here
+    count = LineCounter(width, bold, indent, keep=8)
+    for text in texts + texts[::-1]:
+        assert count(text) == wrapped_lines(text, width, bold, indent)
+
+
+@pytest.mark.parametrize("width, bold, indent", [(5.5, False, 0), (17, True, 0), (48, False, 1), (86, True, 0)])
+def test_a_line_counter_takes_its_short_cut_only_where_it_holds(width, bold, indent):
+    # the longest text counted without a look is one line even in the widest character of the table
+    # ("@", 1.015 em, from memory), and one such character more runs onto a second line
+    count = LineCounter(width, bold, indent)
+    assert count("@" * count.fits) == 1 == wrapped_lines("@" * count.fits, width, bold, indent)
+    assert count("@" * (count.fits + 1)) == 2 == wrapped_lines("@" * (count.fits + 1), width, bold, indent)

@@ -93,6 +93,45 @@ def _wrapped(text: str, room: float, bold: bool, size: float) -> int:
     return max(total, 1)
 
 
+class LineCounter:
+    """:func:`wrapped_lines` for one column, fast for the texts a sheet repeats.
+
+    The Working sheet asks for the lines of some 8 texts on each of a million rows, and most
+    of those texts recur span after span (the descriptions, symbols and clauses of the trace).
+    A counter is made once per column: a text short enough to fit even if every character were
+    the widest is one line without looking at it; any other is counted once and remembered
+    (up to ``keep`` texts, then it starts afresh). The answers are those of ``wrapped_lines``.
+    """
+
+    __slots__ = ("width", "bold", "indent", "size", "fits", "keep", "_seen")
+
+    def __init__(self, width: float, bold: bool = False, indent: int = 0, size: float = FONT_SIZE,
+                 keep: int = 1 << 15):
+        self.width, self.bold, self.indent, self.size, self.keep = width, bold, indent, size, keep
+        room = column_points(width, indent)
+        factor = BOLD_FACTOR if bold else 1.0
+        # the longest text that the test in wrapped_lines calls one line, evaluated as it does
+        n = max(int(room / (_WIDEST * size * factor)) - 1, 0)
+        while n > 0 and not n * _WIDEST * size * factor <= room:
+            n -= 1
+        while (n + 1) * _WIDEST * size * factor <= room:
+            n += 1
+        self.fits = n
+        self._seen: dict[str, int] = {}
+
+    def __call__(self, text: str) -> int:
+        """Lines ``text`` (a ``str``) takes in this column."""
+        if len(text) <= self.fits and "\n" not in text:
+            return 1
+        seen = self._seen
+        n = seen.get(text)
+        if n is None:
+            if len(seen) >= self.keep:
+                seen.clear()
+            n = seen[text] = wrapped_lines(text, self.width, self.bold, self.indent, self.size)
+        return n
+
+
 def row_height(lines: int, cap: int | None = None) -> float:
     """Row height in points for ``lines`` wrapped lines (at most ``cap`` lines)."""
     n = max(lines, 1) if cap is None else min(max(lines, 1), cap)

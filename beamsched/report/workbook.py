@@ -24,7 +24,7 @@ from .. import CAUTION
 from ..model import BeamInput, BeamStatus, CheckResult, CheckStatus
 from . import palette as P
 from .atomic import OutputError, atomic_path
-from .fit import LINE_HEIGHT, wrapped_lines
+from .fit import LINE_HEIGHT, LineCounter, wrapped_lines
 from .policies import policies_for
 from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header, value_unit
 
@@ -38,6 +38,15 @@ TITLE = "Concrete beam schedule check"
 # 17 px (12.75 pt) is the row height and 64 px the column width that go with 10-point Arial.
 DEFAULT_FONT = {"default_format_properties": {"font_name": "Arial", "font_size": 10},
                 "default_row_height": 17, "default_column_width": 64}
+
+
+def _default_font() -> dict:
+    """DEFAULT_FONT, a fresh copy for each workbook: xlsxwriter adds to the properties it is given
+    (``theme_font_name``), and a workbook made from properties an earlier one changed has another
+    default font entry (the theme's font scheme) than the first one written in the process."""
+    return {k: dict(v) if isinstance(v, dict) else v for k, v in DEFAULT_FONT.items()}
+
+
 MAX_LINES = 31  # the tallest row a worksheet allows is 409 pt: 31 lines of 10-point Arial
 
 
@@ -129,29 +138,113 @@ def understood_text(row: SpanRow) -> str:
     return "\n".join(f"{k}: {v}" for k, v in row.result.understood.items())
 
 
+def _cell_writers(ws):
+    """``write_string`` and ``write_number`` of a worksheet, for the loops that write a million
+    rows: xlsxwriter's own undecorated methods where it has them (the public ones only add the
+    conversion of "A1" cell names, which these loops never pass), else the public ones."""
+    put, put_number = getattr(ws, "_write_string", None), getattr(ws, "_write_number", None)
+    if callable(put) and callable(put_number):
+        return put, put_number
+    return ws.write_string, ws.write_number
+
+
+class _ResultRows:
+    """The Working sheet's row for one check result: its utilisation, status, clause and note.
+
+    Made once per sheet, with its formats and line counters looked up once."""
+
+    def __init__(self, w: _Writer, put, put_number, set_row, widths: list[float]):
+        f = w.f
+        self.put, self.put_number, self.set_row = put, put_number, set_row
+        self.top = f.get(bold=True, top=1, text_wrap=True)
+        self.label_fmt = f.get(top=1, font_color="#404040")
+        self.none_fmt = f.get(align="center", top=1)
+        self.band_fmt = {band.name: (f.get(band.swatch, "0.000", top=1), f.get(band.swatch, top=1))
+                         for band in P.BANDS}
+        self.status = {state: (st.word, f.get(st.swatch, align="center", top=1, text_wrap=True),
+                               wrapped_lines(st.word, widths[5]))
+                       for state, st in P.CHECK_STATUS.items()}
+        self.n_text = LineCounter(widths[7], bold=True)
+        self.n_clause = LineCounter(widths[6], bold=True)
+        self.n_label = LineCounter(widths[1], bold=True)
+
+    def write(self, row: int, c: CheckResult, label: str) -> int:
+        put, top = self.put, self.top
+        word, status_fmt, n_word = self.status[c.status]
+        text = f"Result: demand {sig_text(c.demand)} against capacity {sig_text(c.capacity)} {c.unit}".rstrip()
+        if c.demand is None and c.capacity is None:
+            text = "Result"
+        if c.message:
+            text += ". " + c.message
+        lines = max(self.n_text(text), self.n_clause(c.clause), self.n_label(c.label), n_word)
+        self.set_row(row, LINE_HEIGHT * min(lines, MAX_LINES))
+        put(row, 0, label, self.label_fmt)
+        put(row, 1, c.label, top)
+        put(row, 2, LOCATION_WORDS[c.location], top)
+        put(row, 3, "utilisation", top)
+        u = c.utilisation
+        if u is None:
+            put(row, 4, "—", self.none_fmt)
+        else:
+            number_fmt, word_fmt = self.band_fmt[P.band_for(u).name]
+            if math.isfinite(u):
+                self.put_number(row, 4, u, number_fmt)
+            else:
+                put(row, 4, "∞", word_fmt)
+        put(row, 5, word, status_fmt)
+        put(row, 6, c.clause, top)
+        put(row, 7, text, top)
+        return row + 1
+
+
 class _Writer:
     def __init__(self, wb, report: Report):
         self.wb, self.r = wb, report
         self.f = Formats(wb)
+        self._number_formats: dict[float, object] = {}
+        self._cell_looks()
+
+    def number_format(self, v: float):
+        """The format showing a finite number to about four significant figures (see
+        :func:`sig_format`), remembered by value: a schedule's working repeats its numbers."""
+        fmt = self._number_formats.get(v)
+        if fmt is None:
+            if len(self._number_formats) >= 1 << 16:
+                self._number_formats.clear()
+            fmt = self._number_formats[v] = self.f.get(num=sig_format(v))
+        return fmt
 
     # -- shared bits -------------------------------------------------------------------
     def status_cell(self, ws, row: int, col: int, status: BeamStatus, **extra) -> None:
         st = P.SPAN_STATUS[status]
         ws.write_string(row, col, st.word, self.f.get(st.swatch, align="center", **extra))
 
+    def _cell_looks(self) -> None:
+        """The formats of the status and utilisation cells, looked up once (Spans writes one
+        utilisation cell per check for every span)."""
+        f = self.f
+        self.status_look = {status: (st.word, f.get(st.swatch, align="center"))
+                            for status, st in P.SPAN_STATUS.items()}
+        self.band_look = {band.name: (f.get(band.swatch, "0.000", align="center"), f.get(band.swatch, align="center"))
+                          for band in P.BANDS}
+        self.dash_look = f.get(P.NEUTRAL, align="center")
+        self.not_checked_look = (P.NOT_CHECKED_CELL.word,
+                                 f.get(P.NOT_CHECKED_CELL.swatch, align="center", text_wrap=True))
+        self.state_look = {state: (st.word, f.get(st.swatch, align="center", text_wrap=True))
+                           for state, st in P.CHECK_STATUS.items()}
+
     def util_cell(self, ws, row: int, col: int, u: float | None, made: bool = True) -> None:
         if u is None:
             if made:
-                ws.write_string(row, col, "—", self.f.get(P.NEUTRAL, align="center"))
+                ws.write_string(row, col, "—", self.dash_look)
             else:
-                st = P.NOT_CHECKED_CELL
-                ws.write_string(row, col, st.word, self.f.get(st.swatch, align="center", text_wrap=True))
+                ws.write_string(row, col, *self.not_checked_look)
             return
-        band = P.band_for(u)
+        number_fmt, word_fmt = self.band_look[P.band_for(u).name]
         if math.isfinite(u):
-            ws.write_number(row, col, u, self.f.get(band.swatch, "0.000", align="center"))
+            ws.write_number(row, col, u, number_fmt)
         else:
-            ws.write_string(row, col, "∞", self.f.get(band.swatch, align="center"))
+            ws.write_string(row, col, "∞", word_fmt)
 
     def check_cell(self, ws, row: int, col: int, u: float | None, state: CheckStatus | None) -> None:
         """One check's cell in the results table: its largest utilisation; where it has no number,
@@ -159,10 +252,9 @@ class _Writer:
         if u is not None:
             self.util_cell(ws, row, col, u)
         elif state is None:
-            ws.write_string(row, col, "—", self.f.get(P.NEUTRAL, align="center"))
+            ws.write_string(row, col, "—", self.dash_look)
         else:
-            st = P.CHECK_STATUS[state]
-            ws.write_string(row, col, st.word, self.f.get(st.swatch, align="center", text_wrap=True))
+            ws.write_string(row, col, *self.state_look[state])
 
     def page_setup(self, ws, repeat_row: int | None, last_col: int, title: str) -> None:
         r = self.r
@@ -393,39 +485,66 @@ class _Writer:
             ws.write_string(0, i, head, rotated if n_fixed <= i < n_rotated else f.header())
         wrap = f.get(text_wrap=True)
         plain = f.get()
+        whole = f.get(num="0", align="center")
+        bold = f.get(bold=True)
+        centre = f.get(align="center")
+        capacity = f.get(num="#,##0.0")
+        indented = f.get(text_wrap=True, indent=1)
+        assumed = f.get(P.ASSUMED, text_wrap=True)
+        put, put_number = _cell_writers(ws)
+        status_look, band_look, state_look = self.status_look, self.band_look, self.state_look
+        dash = self.dash_look
+        i_sec = n_rotated
+        n_understood = LineCounter(cols[i_sec][1], indent=1)
+        n_defaults, n_not_made, n_notes = (LineCounter(cols[i][1]) for i in (i_sec + 1, i_sec + 2, i_sec + 3))
+        n_governing = LineCounter(cols[5][1])
+        check_ids = [(n_fixed + j, c.id) for j, c in enumerate(r.columns)]
+        capacity_cols = [(n_fixed + len(r.columns) + j, k) for j, k in enumerate(r.capacity_keys)]
         for n, x in enumerate(r.rows, start=1):
             res = x.result
-            i_sec = n_rotated
             section = section_text(res.input).replace("\n", "; ")
             understood = "\n".join(t for t in (f"section: {section}" if section else "", understood_text(x)) if t)
-            texts = {i_sec: understood, i_sec + 1: defaults_text(res.assumed) or "none",
-                     i_sec + 2: "\n".join(x.not_made), i_sec + 3: x.note_text}
-            lines = max(_lines(t, cols[i][1], indent=1 if i == i_sec else 0) for i, t in texts.items())
-            lines = max(lines, _lines(x.governing.label if x.governing else "", cols[5][1]))
+            defaults = defaults_text(res.assumed) or "none"
+            not_made = "\n".join(x.not_made)
+            notes = x.note_text
+            g = x.governing
+            governing = g.label if g else "—"
+            lines = max(n_understood(understood), n_defaults(defaults), n_not_made(not_made), n_notes(notes),
+                        n_governing(g.label if g else ""))
             ws.set_row(n, LINE_HEIGHT * min(max(lines, 1), MAX_LINES))
             if res.row is not None:
-                ws.write_number(n, 0, res.row, f.get(num="0", align="center"))
-            ws.write_string(n, 1, res.mark, f.get(bold=True))
+                put_number(n, 0, res.row, whole)
+            put(n, 1, res.mark, bold)
             if res.span_no is not None:
-                ws.write_number(n, 2, res.span_no, f.get(num="0", align="center"))
-            self.status_cell(ws, n, 3, res.status)
+                put_number(n, 2, res.span_no, whole)
+            put(n, 3, *status_look[res.status])
             self.util_cell(ws, n, 4, x.utilisation, made=res.status is BeamStatus.ERROR or bool(res.checks))
-            g = x.governing
-            ws.write_string(n, 5, g.label if g else "—", wrap)  # wraps: the row height counts its lines
-            ws.write_string(n, 6, LOCATION_WORDS[g.location] if g else "", f.get(align="center"))
-            for j, c in enumerate(r.columns):
-                self.check_cell(ws, n, n_fixed + j, x.by_check[c.id], x.state[c.id])
-            for j, k in enumerate(r.capacity_keys):
-                v = res.values.get(k)
-                col = n_fixed + len(r.columns) + j
+            put(n, 5, governing, wrap)  # wraps: the row height counts its lines
+            put(n, 6, LOCATION_WORDS[g.location] if g else "", centre)
+            by_check, state = x.by_check, x.state
+            for col, cid in check_ids:
+                u = by_check[cid]
+                if u is not None:
+                    number_fmt, word_fmt = band_look[P.band_for(u).name]
+                    if math.isfinite(u):
+                        put_number(n, col, u, number_fmt)
+                    else:
+                        put(n, col, "∞", word_fmt)
+                elif state[cid] is None:
+                    put(n, col, "—", dash)
+                else:
+                    put(n, col, *state_look[state[cid]])
+            values = res.values
+            for col, k in capacity_cols:
+                v = values.get(k)
                 if isinstance(v, (int, float)) and math.isfinite(v):
-                    ws.write_number(n, col, v, f.get(num="#,##0.0"))
+                    put_number(n, col, v, capacity)
                 elif v is not None:
-                    ws.write_string(n, col, str(v), plain)
-            ws.write_string(n, i_sec, texts[i_sec], f.get(text_wrap=True, indent=1))
-            ws.write_string(n, i_sec + 1, texts[i_sec + 1], f.get(P.ASSUMED, text_wrap=True) if res.assumed else wrap)
-            ws.write_string(n, i_sec + 2, texts[i_sec + 2], wrap)
-            ws.write_string(n, i_sec + 3, texts[i_sec + 3], wrap)
+                    put(n, col, str(v), plain)
+            put(n, i_sec, understood, indented)
+            put(n, i_sec + 1, defaults, assumed if res.assumed else wrap)
+            put(n, i_sec + 2, not_made, wrap)
+            put(n, i_sec + 3, notes, wrap)
         last = len(cols) - 1
         ws.freeze_panes(1, 2)
         ws.autofilter(0, 0, max(len(r.rows), 1), last)
@@ -442,107 +561,140 @@ class _Writer:
         # says which span it shows, and a filter on the column picks one span's working.
         cols = [("Span", 12), ("Check", 20), ("At", 5.5), ("Symbol", 17), ("Value", 14), ("Unit", 8),
                 ("Clause", 13), ("Working (what the value is, how it was found)", 86)]
-        self.w_widths = widths = [w for _, w in cols]
+        widths = [w for _, w in cols]
         for i, (_, w) in enumerate(cols):
             ws.set_column(i, i, w)
         for i, (head, _) in enumerate(cols):
             ws.write_string(0, i, head, f.header())
         ws.freeze_panes(1, 0)
+        # This sheet is nearly every cell of the workbook (a million rows for a large schedule), so
+        # everything that is the same from line to line is looked up once here, not per cell:
+        # the formats, the line counters of each column and the words of each check and value.
+        put, put_number = _cell_writers(ws)
+        set_row = ws.set_row
         wrap = f.get(text_wrap=True)
         plain = f.get()
-        labels = {c.id: c.label for c in r.columns}
         unit_fmt = f.get(indent=1)
         small = f.get(font_color="#404040")
+        bold = f.get(bold=True)
+        bold_right = f.get(bold=True, align="right")
+        italic = f.get(italic=True)
+        number_format = self.number_format
+        heads = {status: (st.word, f.get(st.swatch, bold=True, font_size=11), f.get(st.swatch))
+                 for status, st in P.SPAN_STATUS.items()}
+        n_name, n_symbol, n_value = LineCounter(widths[1]), LineCounter(widths[3]), LineCounter(widths[4])
+        n_clause, n_text = LineCounter(widths[6]), LineCounter(widths[7])
+        results = _ResultRows(self, put, put_number, set_row, widths)
+        labels = {c.id: c.label for c in r.columns}
+        names: dict[str, tuple[str, int]] = {}  # check id -> (its name in the Check column, lines)
+        wheres: dict = dict(LOCATION_WORDS)
+        values: dict[str, tuple[str, str, str]] = {}  # value key -> (symbol, unit, note)
         row = 1
         for x in r.rows:
             res = x.result
-            size = 3 + len(res.trace) + len(res.checks) + len(res.problems) + len(res.values)
+            trace = res.trace if isinstance(res.trace, tuple) else tuple(res.trace)  # a LazyTrace runs once
+            label = x.label
+            size = 3 + len(trace) + len(res.checks) + len(res.problems) + len(res.values)
             if row + size >= MAX_ROWS:
-                ws.write_string(row, 0, f"The working of {len(r.rows) - x.index} more spans, from {x.label} on, "
-                                        "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
-                                        "batches to see their working.", f.get(bold=True))
+                put(row, 0, f"The working of {len(r.rows) - x.index} more spans, from {x.label} on, "
+                            "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
+                            "batches to see their working.", bold)
                 break
-            ws.set_row(row, 18)
-            st = P.SPAN_STATUS[res.status]
-            ws.write_string(row, 0, x.label, f.get(st.swatch, bold=True, font_size=11))
-            ws.write_string(row, 1, st.word, f.get(st.swatch, bold=True, font_size=11))
-            ws.write_string(row, 2, "", f.get(st.swatch))
-            ws.write_string(row, 3, "max. utilisation", f.get(bold=True, align="right"))
+            set_row(row, 18)
+            word, head_fmt, fill_fmt = heads[res.status]
+            put(row, 0, label, head_fmt)
+            put(row, 1, word, head_fmt)
+            put(row, 2, "", fill_fmt)
+            put(row, 3, "max. utilisation", bold_right)
             self.util_cell(ws, row, 4, x.utilisation)
             g = x.governing
             info = f"schedule row {res.row if res.row is not None else '—'}"
             if g is not None:
                 info += f"; governing: {check_display(g)}, utilisation {P.format_utilisation(g.utilisation)}"
-            ws.write_string(row, 7, info, f.get(bold=True))
+            put(row, 7, info, bold)
             row += 1
             if res.status is BeamStatus.ERROR or res.problems:
                 for p in res.problems:
                     text = ("Warning: " if p.severity == "warning" else "Not read: ") + p.message
                     value = "" if p.value is None else str(p.value)
-                    ws.set_row(row, LINE_HEIGHT * min(max(_lines(text, widths[7]), _lines(value, widths[4]),
-                                                          _lines(p.column or "", widths[3])), MAX_LINES))
-                    ws.write_string(row, 0, x.label, small)
-                    ws.write_string(row, 1, "Input", plain)
-                    ws.write_string(row, 3, p.column or "", wrap)
-                    ws.write_string(row, 4, value, wrap)
-                    ws.write_string(row, 7, text, wrap)
+                    set_row(row, LINE_HEIGHT * min(max(n_text(text), n_value(value), n_symbol(p.column or "")),
+                                                   MAX_LINES))
+                    put(row, 0, label, small)
+                    put(row, 1, "Input", plain)
+                    put(row, 3, p.column or "", wrap)
+                    put(row, 4, value, wrap)
+                    put(row, 7, text, wrap)
                     row += 1
             for k, v in res.values.items():
                 if v is None:
                     continue
-                ws.write_string(row, 0, x.label, small)
-                ws.write_string(row, 1, "Result values", plain)
-                ws.write_string(row, 3, value_header(k).split(" (")[0], plain)
+                words = values.get(k)
+                if words is None:
+                    words = values[k] = (value_header(k).split(" (")[0], value_unit(k),
+                                         f"{k} (the name in the JSON and CSV results)")
+                put(row, 0, label, small)
+                put(row, 1, "Result values", plain)
+                put(row, 3, words[0], plain)
                 if isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v):
-                    ws.write_number(row, 4, v, f.get(num=sig_format(v)))
+                    put_number(row, 4, v, number_format(v))
                 else:
-                    if _lines(str(v), widths[4]) > 1:
-                        ws.set_row(row, LINE_HEIGHT * min(_lines(str(v), widths[4]), MAX_LINES))
-                    ws.write_string(row, 4, str(v), wrap)
-                ws.write_string(row, 5, value_unit(k), unit_fmt)
-                ws.write_string(row, 7, f"{k} (the name in the JSON and CSV results)", f.get(italic=True))
+                    text = str(v)
+                    n = n_value(text)
+                    if n > 1:
+                        set_row(row, LINE_HEIGHT * min(n, MAX_LINES))
+                    put(row, 4, text, wrap)
+                put(row, 5, words[1], unit_fmt)
+                put(row, 7, words[2], italic)
                 row += 1
             groups: dict[tuple, list] = {}
-            for t in res.trace:
-                groups.setdefault((t.check, t.location), []).append(t)
+            for t in trace:
+                key = (t.check, t.location)
+                group = groups.get(key)
+                if group is None:
+                    groups[key] = [t]
+                else:
+                    group.append(t)
             results_by_key: dict[tuple, list[CheckResult]] = {}
             for c in res.checks:
                 results_by_key.setdefault((c.id, c.location), []).append(c)
-            done: set[tuple] = set()
             for key, lines in groups.items():
                 for t in lines:
-                    text_value = isinstance(t.value, str)
-                    name = labels.get(t.check, t.check.replace("_", " ").capitalize())
-                    n_lines = max(_lines(t.description, widths[7]), _lines(t.value, widths[4]) if text_value else 1,
-                                  _lines(t.symbol, widths[3]), _lines(t.clause, widths[6]), _lines(name, widths[1]))
+                    check, value, symbol, clause, text = t.check, t.value, t.symbol, t.clause, t.description
+                    named = names.get(check)
+                    if named is None:
+                        name = labels[check] if check in labels else check.replace("_", " ").capitalize()
+                        named = names[check] = (name, n_name(name))
+                    n_lines = max(n_text(text), n_value(value) if isinstance(value, str) else 1,
+                                  n_symbol(symbol), n_clause(clause), named[1])
                     if n_lines > 1:
-                        ws.set_row(row, LINE_HEIGHT * min(n_lines, MAX_LINES))
-                    ws.write_string(row, 0, x.label, small)
-                    ws.write_string(row, 1, name, wrap)
-                    where = LOCATION_WORDS.get(t.location, str(t.location))
+                        set_row(row, LINE_HEIGHT * min(n_lines, MAX_LINES))
+                    put(row, 0, label, small)
+                    put(row, 1, named[0], wrap)
+                    where = wheres.get(t.location)
+                    if where is None:
+                        where = wheres[t.location] = str(t.location)
                     if where:  # empty cells are left unwritten: the sheet can run to a million rows
-                        ws.write_string(row, 2, where, plain)
-                    ws.write_string(row, 3, t.symbol, wrap)
-                    if isinstance(t.value, (int, float)) and not isinstance(t.value, bool):
-                        if math.isfinite(t.value):
-                            ws.write_number(row, 4, t.value, f.get(num=sig_format(t.value)))
+                        put(row, 2, where, plain)
+                    put(row, 3, symbol, wrap)
+                    kind = value.__class__
+                    if kind is float or kind is int or (isinstance(value, (int, float)) and not isinstance(value, bool)):
+                        if math.isfinite(value):
+                            put_number(row, 4, value, number_format(value))
                         else:
-                            ws.write_string(row, 4, "∞" if t.value > 0 else "−∞", plain)
-                    elif t.value is not None:
-                        ws.write_string(row, 4, str(t.value), wrap)
+                            put(row, 4, "∞" if value > 0 else "−∞", plain)
+                    elif value is not None:
+                        put(row, 4, str(value), wrap)
                     if t.unit:
-                        ws.write_string(row, 5, t.unit, unit_fmt)
-                    if t.clause:
-                        ws.write_string(row, 6, t.clause, wrap)
-                    ws.write_string(row, 7, t.description, wrap)
+                        put(row, 5, t.unit, unit_fmt)
+                    if clause:
+                        put(row, 6, clause, wrap)
+                    put(row, 7, text, wrap)
                     row += 1
-                for c in results_by_key.get(key, []):
-                    row = self._result_row(ws, row, c, x.label)
-                done.add(key)
-            for key, checks in results_by_key.items():
-                if key not in done:
-                    for c in checks:
-                        row = self._result_row(ws, row, c, x.label)
+                for c in results_by_key.pop(key, ()):
+                    row = results.write(row, c, label)
+            for checks in results_by_key.values():  # results with no working of their own
+                for c in checks:
+                    row = results.write(row, c, label)
             row += 1
         ws.autofilter(0, 0, max(row - 1, 1), len(cols) - 1)  # filter one span's rows to print its working alone
         self.page_setup(ws, 0, len(cols) - 1, "Calculation working")
@@ -552,36 +704,6 @@ class _Writer:
         ws.set_portrait()
         ws.set_paper(3)
         ws.hide_gridlines(0)  # printed gridlines guide the eye along the long rows
-
-    def _result_row(self, ws, row: int, c: CheckResult, label: str) -> int:
-        f = self.f
-        widths = self.w_widths
-        st = P.CHECK_STATUS[c.status]
-        text = f"Result: demand {sig_text(c.demand)} against capacity {sig_text(c.capacity)} {c.unit}".rstrip()
-        if c.demand is None and c.capacity is None:
-            text = "Result"
-        if c.message:
-            text += ". " + c.message
-        lines = max(_lines(text, widths[7], bold=True), _lines(c.clause, widths[6], bold=True),
-                    _lines(c.label, widths[1], bold=True), _lines(st.word, widths[5]))
-        ws.set_row(row, LINE_HEIGHT * min(lines, MAX_LINES))
-        top = f.get(bold=True, top=1, text_wrap=True)
-        ws.write_string(row, 0, label, f.get(top=1, font_color="#404040"))
-        ws.write_string(row, 1, c.label, top)
-        ws.write_string(row, 2, LOCATION_WORDS[c.location], top)
-        ws.write_string(row, 3, "utilisation", top)
-        if c.utilisation is None:
-            ws.write_string(row, 4, "—", f.get(align="center", top=1))
-        else:
-            band = P.band_for(c.utilisation)
-            if math.isfinite(c.utilisation):
-                ws.write_number(row, 4, c.utilisation, f.get(band.swatch, "0.000", top=1))
-            else:
-                ws.write_string(row, 4, "∞", f.get(band.swatch, top=1))
-        ws.write_string(row, 5, st.word, f.get(st.swatch, align="center", top=1, text_wrap=True))
-        ws.write_string(row, 6, c.clause, top)
-        ws.write_string(row, 7, text, top)
-        return row + 1
 
     # -- Input problems ----------------------------------------------------------------
     def problems(self) -> None:
@@ -698,7 +820,7 @@ def _write(report: Report, path, protected, xlsxwriter) -> None:
     with atomic_path(path, protected) as tmp:
         wb = xlsxwriter.Workbook(str(tmp), {"constant_memory": True, "strings_to_numbers": False,
                                             "strings_to_formulas": False, "strings_to_urls": False,
-                                            **DEFAULT_FONT})
+                                            **_default_font()})
         try:
             wb.set_properties({"title": TITLE, "subject": report.schedule.code, "author": "beamsched",
                                "comments": CAUTION})
