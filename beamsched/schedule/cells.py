@@ -15,10 +15,11 @@ import csv
 import datetime as _dt
 import gc
 import io
+import itertools
 import posixpath
 import re
 import zipfile
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
@@ -262,17 +263,17 @@ def _value(v: object) -> object:
     return v
 
 
-def grid_from_values(name: str, values: list[list[object]], hidden: frozenset[int] = frozenset(),
-                     state: str = "visible") -> Grid:
-    """A Grid from calamine's rows of values (row 1 first, column A first). Equal values share
-    one Cell object (a schedule repeats its sizes, bars and words row after row). The rows are
-    released from ``values`` as they are taken."""
+def grid_from_values(name: str, values: Iterable[list[object]], hidden: frozenset[int] = frozenset(),
+                     state: str = "visible", first_column: int = 0) -> Grid:
+    """A Grid from calamine's rows of values: row 1 first, the first value of each in column
+    ``first_column`` + 1 (0: column A). Equal values share one Cell object (a schedule repeats
+    its sizes, bars and words row after row)."""
     cache: dict[tuple[type, object], Cell] = {}
     get = cache.get
     rows: list[tuple[int, list[Cell]]] = []
+    lead = [EMPTY] * first_column
     for i, vals in enumerate(values):
-        values[i] = None  # type: ignore[call-overload] # free the raw row as soon as it is read
-        cells: list[Cell] = []
+        cells: list[Cell] = lead.copy()
         last = 0
         for v in vals:
             if v == "" or v is None:
@@ -291,36 +292,62 @@ def grid_from_values(name: str, values: list[list[object]], hidden: frozenset[in
     return Grid(name, rows, hidden, state)
 
 
+def _calamine_grid(wb, name: str, hidden: frozenset[int], state: str) -> Grid:
+    """One sheet through calamine, row by row (the sheet's values are never all in Python at
+    once). ``iter_rows`` starts at row 1 and at the first column used; where a version of
+    python-calamine answers otherwise (the number of rows tells), the whole sheet is taken from
+    column A and row 1 with ``to_python``."""
+    sheet = wb.get_sheet_by_name(name)
+    if sheet.start is None:  # an empty sheet
+        return Grid(name, [], hidden, state)
+    (_, col0), (row1, col1) = sheet.start, sheet.end
+    rows = sheet.iter_rows()
+    first = next(rows, [])
+    if len(first) == col1 + 1:  # rows that start at column A
+        col0 = 0
+    if len(first) == col1 - col0 + 1:
+        grid = grid_from_values(name, itertools.chain([first], rows), hidden, state, col0)
+        if (grid.rows[-1][0] if grid.rows else 0) == row1 + 1:
+            return grid
+    return grid_from_values(name, sheet.to_python(skip_empty_area=False), hidden, state)
+
+
 def read_workbook_calamine(path: Path) -> list[Grid]:
     """The fast path of :func:`read_workbook`: python-calamine for every sheet that holds no
-    formula and no error cell, openpyxl for the others. Raises for a structure it does not know."""
+    formula and no error cell, openpyxl for the others (calamine's saved results stand in for
+    openpyxl's values-only pass wherever calamine has one). Raises for a structure it does not
+    know."""
     from python_calamine import CalamineWorkbook
 
     with zipfile.ZipFile(path) as z:
         parts = _sheet_parts(z)
         scans = [scan_sheet(z, member) for _, member, _ in parts]
-    slow = {name for (name, _, _), (_, special) in zip(parts, scans, strict=True) if special}
-    by_name = {g.name: g for g in read_workbook_openpyxl(path, only=slow)} if slow else {}
     grids: list[Grid] = []
+    saved: dict[str, Grid] = {}
     wb = CalamineWorkbook.from_path(str(path))
     try:
         for (name, _, state), (hidden, special) in zip(parts, scans, strict=True):
+            grid = _calamine_grid(wb, name, hidden, state)
             if special:
-                grids.append(by_name[name])
-                continue
-            values = wb.get_sheet_by_name(name).to_python(skip_empty_area=False)
-            grids.append(grid_from_values(name, values, hidden, state))
-            del values
+                saved[name] = grid
+            grids.append(grid)
     finally:
         wb.close()
+    if saved:
+        by_name = {g.name: g for g in read_workbook_openpyxl(path, only=set(saved), saved=saved)}
+        grids = [by_name[g.name] if g.name in saved else g for g in grids]
     return grids
 
 
-def read_workbook_openpyxl(path: Path, only: set[str] | None = None) -> list[Grid]:
+def read_workbook_openpyxl(path: Path, only: set[str] | None = None,
+                           saved: dict[str, Grid] | None = None) -> list[Grid]:
     """Every sheet (or the sheets named in ``only``) read by openpyxl, read-only.
 
     The formulas pass reads every cell; a second, values-only pass is made only when the
-    workbook holds formulas, to take their saved results.
+    workbook holds formulas, to take their saved results. ``saved`` (sheet name -> the sheet as
+    calamine read it) gives the saved result of each formula calamine has one for; the
+    values-only pass is then made only for the others: those saved without a result, with an
+    empty text or with an error as their result, which calamine all reads as an empty cell.
     """
     import openpyxl
 
@@ -360,12 +387,31 @@ def read_workbook_openpyxl(path: Path, only: set[str] | None = None) -> list[Gri
         raise ScheduleError(f"{path.name} cannot be read as a workbook: {exc}") from exc
     finally:
         wb.close()
+    if saved:
+        formulas = [_from_saved(g, found, saved.get(g.name)) for g, found in zip(grids, formulas, strict=True)]
     if any(formulas):
         _saved_results(path, grids, formulas)
     for grid in grids:
         for _, cells in grid.rows:
             _trim(cells)
     return grids
+
+
+def _from_saved(grid: Grid, found: list[tuple[int, int, int, str]],
+                saved: Grid | None) -> list[tuple[int, int, int, str]]:
+    """Fill in each formula's saved result that calamine read; the formulas still without one."""
+    if saved is None:
+        return found
+    by_number = dict(saved.rows)
+    left = []
+    for i, j, number, formula in found:
+        row = by_number.get(number, ())
+        c = row[j] if j < len(row) else EMPTY
+        if c.blank:
+            left.append((i, j, number, formula))
+            continue
+        grid.rows[i][1][j] = Cell(c.value) if c.value == formula else Cell(c.value, formula)
+    return left
 
 
 def _saved_results(path: Path, grids: list[Grid], formulas: list[list[tuple[int, int, int, str]]]) -> None:

@@ -181,7 +181,7 @@ def _read_schedule(p: Path, sheet: str | None) -> Schedule:
         pos = SpanPosition(first=lo is not None and s == lo, last=hi is not None and s == hi, multi=multi)
         rows.append(convert_row(number, cells, hdr, defaults, code, pos))
         if i not in repeated:
-            body[i] = (number, [])  # its cells are not compared again: free them
+            body[i] = None  # type: ignore[call-overload] # its cells are not compared again: free them
     del keys, positions
     rows = _duplicates(rows, body, hdr, groups)
     rows = _continuity(rows, hdr)
