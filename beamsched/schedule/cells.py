@@ -360,6 +360,7 @@ def read_workbook_openpyxl(path: Path, only: set[str] | None = None,
         wb = openpyxl.load_workbook(path, read_only=True, data_only=False)
     except Exception as exc:  # openpyxl raises many types for a damaged package
         raise ScheduleError(f"{path.name} cannot be opened as a workbook: {exc}") from exc
+    shared: dict[tuple[type, object], Cell] = {}  # one Cell for equal values (of one type)
     try:
         for ws in wb.worksheets:
             if only is not None and ws.title not in only:
@@ -377,7 +378,14 @@ def read_workbook_openpyxl(path: Path, only: set[str] | None = None,
                         found.append((len(rows), j, number, formula))
                         cells.append(Cell(None, formula))
                     else:
-                        cells.append(_plain(v))
+                        try:
+                            key = (v.__class__, v)
+                            c = shared.get(key)
+                            if c is None:
+                                c = shared[key] = _plain(v)
+                        except TypeError:  # a value that cannot be a key: its own Cell
+                            c = _plain(v)
+                        cells.append(c)
                 if not all(c.blank for c in cells):
                     rows.append((number, cells))
             grids.append(Grid(ws.title, rows, _hidden_rows(path, getattr(ws, "_worksheet_path", None)),
@@ -459,8 +467,9 @@ def read_csv(path: Path) -> Grid:
     except csv.Error:
         dialect = csv.excel
     rows = []
+    shared: dict[str, Cell] = {}  # one Cell for each distinct text
     for number, values in enumerate(csv.reader(io.StringIO(text), dialect), start=1):
-        cells = [Cell(v if v.strip() else None) for v in values]
+        cells = [shared.get(v) or shared.setdefault(v, _plain(v)) for v in values]
         if not all(c.blank for c in cells):
-            rows.append((number, cells))
+            rows.append((number, _trim(cells)))
     return Grid(path.stem, rows)

@@ -240,7 +240,7 @@ def _continuity(rows: list[BeamInput | RowFailure], hdr) -> list[BeamInput | Row
                 out[j] = add_problem(out[j], Problem(msg, hdr.label("left_end") if "left_end" in hdr.index
                                                      else hdr.label("support"), b.left_end, b.row, "warning"))
             if a.top_bars_right is not None and b.top_bars_left is not None and \
-                    str(a.top_bars_right) != str(b.top_bars_left):
+                    a.top_bars_right is not b.top_bars_left and str(a.top_bars_right) != str(b.top_bars_left):
                 msg = (f"row {b.row}: top bars R of span {n1} ({a.top_bars_right}) and top bars L of span {n2} "
                        f"({b.top_bars_left}) differ at {where}: the same bars normally cross the support; each span "
                        "is checked with its own")

@@ -11,6 +11,7 @@ from __future__ import annotations
 import dataclasses
 import re
 from dataclasses import dataclass, field
+from functools import lru_cache
 
 from ..bars import BarArrangement, NotationError, Stirrups, parse_bars, parse_stirrups
 from ..codes import DesignCode
@@ -176,7 +177,7 @@ class _Row:
         self.source: dict[str, str] = {}
         n = len(cells)
         self._by_key = {key: (cells[i] if i < n else EMPTY) for key, i in hdr.index.items()}
-        self._filled = {key for key, c in self._by_key.items() if not c.blank}
+        self._filled = {key for key, c in self._by_key.items() if c is not EMPTY and not c.blank}
 
     # -- cells ------------------------------------------------------------------------
     def cell(self, key: str) -> Cell | None:
@@ -208,13 +209,13 @@ class _Row:
         return c
 
     def num(self, key: str, fld: str | None = None) -> float | None:
+        if key not in self._filled:  # most of a row's columns: no such column, or blank
+            return None
         c = self._guard(key)
         if c is None:
             return None
         col = BY_KEY[key]
-        unit = self.hdr.units.get(key, "")
-        words = {"in": "inches", "inch": "inches", '"': "inches", "ft": "feet", "'": "feet"}.get(unit.strip(), unit)
-        expected = f"a number in {words}" if unit else "a number"
+        expected = _expected_number(self.hdr.units.get(key, ""))
         try:
             x = cv.number(c, expected)
         except cv.CellError as exc:
@@ -315,6 +316,16 @@ class _Row:
             self.assumed.append(f"{words} = {builtin:g} mm assumed (not scheduled, no Parameters value)")
             self.origin[fld] = (f"{words} (assumed)", builtin)
         return builtin
+
+
+_UNIT_WORDS = {"in": "inches", "inch": "inches", '"': "inches", "ft": "feet", "'": "feet"}
+
+
+@lru_cache(maxsize=256)
+def _expected_number(unit: str) -> str:
+    """What a number cell of a column in ``unit`` should hold, in words."""
+    words = _UNIT_WORDS.get(unit.strip(), unit)
+    return f"a number in {words}" if unit else "a number"
 
 
 def _tidy(message: str, value: object) -> str:
