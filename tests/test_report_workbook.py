@@ -297,3 +297,26 @@ def test_row_heights_hold_their_text(book):
                     lines = wrapped_lines(c.value, widths[c.column_letter], bold=bool(c.font.b),
                                           indent=int(c.alignment.indent or 0))
                     assert height >= LINE_HEIGHT * min(lines, 31) - 0.75, (name, c.coordinate, c.value)  # 1 px rounding
+
+
+def test_the_collector_spares_the_results_and_is_left_as_it_was(tmp_path, monkeypatch):
+    import gc
+
+    import beamsched.report.workbook as wbmod
+
+    if gc.get_freeze_count() or not gc.isenabled():
+        pytest.skip("the test process has set objects aside itself")
+    rep = report()
+    seen = []
+    working = wbmod._Writer.working
+    monkeypatch.setattr(wbmod._Writer, "working", lambda self: (seen.append(gc.get_freeze_count()), working(self)))
+    write_results(rep, tmp_path / "a.xlsx")
+    assert seen[0] > 0  # the objects alive before the write were set aside while it ran
+    assert gc.isenabled() and gc.get_freeze_count() == 0
+    gc.freeze()
+    try:
+        kept = gc.get_freeze_count()
+        write_results(rep, tmp_path / "b.xlsx")
+        assert seen[1] == kept == gc.get_freeze_count()  # a caller's own set-aside objects are left alone
+    finally:
+        gc.unfreeze()

@@ -15,9 +15,11 @@ tens of thousands of spans costs little memory; nothing here merges cells for th
 from __future__ import annotations
 
 import contextlib
+import gc
 import math
 import os
 import textwrap
+from collections.abc import Iterator
 from pathlib import Path
 
 from .. import CAUTION
@@ -587,6 +589,9 @@ class _Writer:
         results = _ResultRows(self, put, put_number, set_row, widths)
         labels = {c.id: c.label for c in r.columns}
         names: dict[str, tuple[str, int]] = {}  # check id -> (its name in the Check column, lines)
+        shapes: dict[tuple[str, str, str, str], tuple[str, int]] = {}  # (check, symbol, clause, working)
+        # -> (the check's name, the lines of the row's fixed texts)
+        number_formats, isfinite = self._number_formats, math.isfinite
         wheres: dict = dict(LOCATION_WORDS)
         values: dict[str, tuple[str, str, str]] = {}  # value key -> (symbol, unit, note)
         row = 1
@@ -660,16 +665,24 @@ class _Writer:
             for key, lines in groups.items():
                 for t in lines:
                     check, value, symbol, clause, text = t.check, t.value, t.symbol, t.clause, t.description
-                    named = names.get(check)
-                    if named is None:
-                        name = labels[check] if check in labels else check.replace("_", " ").capitalize()
-                        named = names[check] = (name, n_name(name))
-                    n_lines = max(n_text(text), n_value(value) if isinstance(value, str) else 1,
-                                  n_symbol(symbol), n_clause(clause), named[1])
+                    shape = (check, symbol, clause, text)  # a few hundred of these recur span after span
+                    known = shapes.get(shape)
+                    if known is None:
+                        named = names.get(check)
+                        if named is None:
+                            name = labels[check] if check in labels else check.replace("_", " ").capitalize()
+                            named = names[check] = (name, n_name(name))
+                        if len(shapes) >= 1 << 15:
+                            shapes.clear()
+                        known = shapes[shape] = (named[0], max(named[1], n_text(text), n_symbol(symbol),
+                                                               n_clause(clause)))
+                    name, n_lines = known
+                    if isinstance(value, str):
+                        n_lines = max(n_lines, n_value(value))
                     if n_lines > 1:
                         set_row(row, LINE_HEIGHT * min(n_lines, MAX_LINES))
                     put(row, 0, label, small)
-                    put(row, 1, named[0], wrap)
+                    put(row, 1, name, wrap)
                     where = wheres.get(t.location)
                     if where is None:
                         where = wheres[t.location] = str(t.location)
@@ -678,8 +691,8 @@ class _Writer:
                     put(row, 3, symbol, wrap)
                     kind = value.__class__
                     if kind is float or kind is int or (isinstance(value, (int, float)) and not isinstance(value, bool)):
-                        if math.isfinite(value):
-                            put_number(row, 4, value, number_format(value))
+                        if isfinite(value):
+                            put_number(row, 4, value, number_formats.get(value) or number_format(value))
                         else:
                             put(row, 4, "∞" if value > 0 else "−∞", plain)
                     elif value is not None:
@@ -816,8 +829,28 @@ def write_results(report: Report, path: str | os.PathLike, protected: tuple | li
     return Path(path)
 
 
+@contextlib.contextmanager
+def _collector_spared() -> Iterator[None]:
+    """Keep Python's cyclic garbage collector off the objects alive when the write starts.
+
+    The results of a large schedule are hundreds of thousands of objects that live through the
+    whole write, and every full collection the write sets off walked all of them (measured:
+    2.3 of 94 CPU seconds for 10,000 spans). They are set aside (``gc.freeze``) and handed back
+    afterwards; what the write itself makes is still collected as usual. Nothing is done when
+    the collector is off or the caller has set objects aside itself.
+    """
+    if not gc.isenabled() or gc.get_freeze_count():
+        yield
+        return
+    gc.freeze()
+    try:
+        yield
+    finally:
+        gc.unfreeze()
+
+
 def _write(report: Report, path, protected, xlsxwriter) -> None:
-    with atomic_path(path, protected) as tmp:
+    with atomic_path(path, protected) as tmp, _collector_spared():
         wb = xlsxwriter.Workbook(str(tmp), {"constant_memory": True, "strings_to_numbers": False,
                                             "strings_to_formulas": False, "strings_to_urls": False,
                                             **_default_font()})
