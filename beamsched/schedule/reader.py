@@ -100,15 +100,14 @@ def _read_schedule(p: Path, sheet: str | None) -> Schedule:
         raise ScheduleError(f"{p} is a folder, not a schedule file")
     suffix = p.suffix.lower()
     try:
-        data = p.read_bytes()
+        head, sha = _fingerprint(p)
     except OSError as exc:
         raise ScheduleError(f"{p}: cannot be read ({exc.strerror or exc})") from exc
-    sha = hashlib.sha256(data).hexdigest()
     modified = _dt.datetime.fromtimestamp(p.stat().st_mtime, tz=_dt.timezone.utc).isoformat(timespec="seconds")
     is_csv = suffix in CSV_SUFFIXES
     if suffix == ".xls":
         raise ScheduleError(f"{p.name}: the old .xls format is not read; save it as .xlsx, or export as .csv")
-    if not is_csv and suffix not in WORKBOOK_SUFFIXES and not data.startswith(b"PK"):
+    if not is_csv and suffix not in WORKBOOK_SUFFIXES and not head.startswith(b"PK"):
         raise ScheduleError(f"{p.name}: not a schedule file beamsched reads (expected .xlsx, .xlsm or .csv)")
     grids = [read_csv(p)] if is_csv else read_workbook(p)
     grid, header_at = _pick_sheet(grids, None if is_csv else sheet, p.name)
@@ -191,6 +190,17 @@ def _read_schedule(p: Path, sheet: str | None) -> Schedule:
         units_assumed=tuple(hdr.units_assumed), columns=dict(hdr.labels), defaults=_defaults_words(defaults),
         file_sha256=sha, file_modified=modified,
     )
+
+
+def _fingerprint(p: Path) -> tuple[bytes, str]:
+    """The file's first bytes and its SHA-256, read a megabyte at a time (never held whole)."""
+    h = hashlib.sha256()
+    with p.open("rb") as f:
+        head = f.read(8)
+        h.update(head)
+        for chunk in iter(lambda: f.read(1 << 20), b""):
+            h.update(chunk)
+    return head, h.hexdigest()
 
 
 def _peek(cells, i: int | None) -> str | None:
