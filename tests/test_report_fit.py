@@ -64,7 +64,7 @@ def test_the_lines_hold_the_text(text, width):
 def test_a_line_counter_answers_as_wrapped_lines(texts, width, bold, indent):
     # the counter remembers what it has counted (and starts afresh when full): texts repeat here
     count = LineCounter(width, bold, indent, keep=8)
-    for text in texts + texts[::-1]:
+    for text in texts + texts[::-1] + [None, 12345.678]:
         assert count(text) == wrapped_lines(text, width, bold, indent)
 
 

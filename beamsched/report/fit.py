@@ -119,8 +119,10 @@ class LineCounter:
         self.fits = n
         self._seen: dict[str, int] = {}
 
-    def __call__(self, text: str) -> int:
-        """Lines ``text`` (a ``str``) takes in this column."""
+    def __call__(self, text: object) -> int:
+        """Lines ``text`` takes in this column (``None`` as an empty text, as ``wrapped_lines``)."""
+        if text.__class__ is not str:
+            text = "" if text is None else str(text)
         if len(text) <= self.fits and "\n" not in text:
             return 1
         seen = self._seen
