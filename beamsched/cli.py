@@ -56,6 +56,10 @@ def one_line(message: object) -> str:
     return " ".join(str(message).split())
 
 
+# Whose calculation the Working sheet holds (beamsched.report.table.WORKING_CHOICES, repeated
+# here so that --help need not import the report package; a test keeps the two equal).
+WORKING_CHOICES = ("all", "flagged", "none")
+
 # The input limits: (Limits field, option, metavar, type, default shown in --help, help). The limits
 # themselves are beamsched.schedule.guard.Limits; its defaults are repeated here only for the help
 # text, because importing the reader would load pint before --help answers (a test keeps the two
@@ -138,6 +142,10 @@ def build_parser() -> argparse.ArgumentParser:
                        help="also write a checked copy of the schedule workbook with the results beside each span")
     check.add_argument("--sheet", metavar="NAME",
                        help="the sheet holding the schedule (default: the first sheet with a 'Mark' header)")
+    check.add_argument("--working", choices=WORKING_CHOICES, default="all",
+                       help="whose calculation the Working sheet holds: every span's (all, the default), only the "
+                            "spans that fail, are incomplete or could not be checked (flagged: a much smaller "
+                            "workbook for a large schedule), or none")
     limits = check.add_argument_group(
         "limits on the input",
         "A file past a limit is refused before it is parsed, with a message naming the limit and the option\n"
@@ -287,6 +295,7 @@ class Plan:
     sheet: str | None = None
     limits: object = None  # beamsched.schedule.guard.Limits; None: the defaults
     debug: bool = False
+    working: str = "all"  # whose calculation the Working sheet holds (WORKING_CHOICES)
 
 
 @dataclass
@@ -386,7 +395,7 @@ def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None, demo: 
         return Outcome(EXIT_UNREADABLE)
     progress = Progress(len(schedule.rows), err)
     results = check_rows(schedule, progress)
-    report = Report(results, schedule)
+    report = Report(results, schedule, working=plan.working)
     outcome = Outcome(exit_code(report))
     protected = [plan.schedule]
     jobs = [("Results workbook", plan.output, lambda p: write_results(report, p, protected))]
@@ -510,6 +519,7 @@ def limits_from(args):
 def _cmd_check(args) -> int:
     plan = make_plan(args.schedule, args.output, args.json, args.csv, args.annotate, args.sheet,
                      limits_from(args), args.debug)
+    plan.working = args.working
     return run(plan).code
 
 

@@ -297,3 +297,16 @@ def test_long_schedule_is_silent_on_stderr_off_a_terminal(tmp_path, capsys):
     code, out, err = run(capsys, "check", schedule_csv(tmp_path, *rows))
     assert code == 0 and err == ""
     assert out.count(" PASS ") == 10  # the ten worst spans, not all 25
+
+
+def test_working_flagged_leaves_the_passing_spans_out(tmp_path, capsys):
+    src = schedule_csv(tmp_path, PASS, FAIL)
+    out = tmp_path / "flagged.xlsx"
+    code, _, _ = run(capsys, "check", src, "-o", out, "--working", "flagged")
+    assert code == 1
+    ws = load_workbook(out)["Working"]
+    heads = [r[0] for r in ws.iter_rows(min_row=2, values_only=True) if r[1] in ("PASS", "FAIL")]
+    assert heads == ["B12 span 1"]  # the failing span only; the passing one is on the Spans sheet
+    assert "1 of 2 spans left out" in ws.cell(2, 1).value
+    code, _, err = run(capsys, "check", src, "-o", out, "--working", "some")
+    assert code == 2 and "invalid choice" in err

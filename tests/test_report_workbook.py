@@ -12,7 +12,8 @@ import beamsched
 from beamsched.model import BeamStatus
 from beamsched.report import palette as P
 from beamsched.report.table import Report
-from beamsched.report.workbook import SHEETS, sig_format, write_results
+from beamsched.engine import check_schedule
+from beamsched.report.workbook import SHEETS, WORKING_NOTE, sig_format, write_results
 
 
 def argb(hex_colour: str) -> str:
@@ -320,3 +321,43 @@ def test_the_collector_spares_the_results_and_is_left_as_it_was(tmp_path, monkey
         assert seen[1] == kept == gc.get_freeze_count()  # a caller's own set-aside objects are left alone
     finally:
         gc.unfreeze()
+
+
+def working_spans(path) -> list[str]:
+    """The spans whose calculation the Working sheet holds, in order (each span's block starts
+    with its label and its status word)."""
+    ws = load_workbook(path)["Working"]
+    words = {st.word for st in P.SPAN_STATUS.values()}
+    return [r[0] for r in ws.iter_rows(min_row=2, values_only=True) if r[0] and r[1] in words]
+
+
+def test_working_can_hold_only_the_flagged_spans_or_none(tmp_path):
+    s = schedule()
+    results = check_schedule(s)
+    statuses = {r.label: r.status for r in results}
+    assert BeamStatus.PASS in statuses.values() and BeamStatus.FAIL in statuses.values()
+    spans = {}
+    for mode in ("all", "flagged", "none"):
+        path = tmp_path / f"{mode}.xlsx"
+        write_results(Report(results, s, working=mode), path)
+        spans[mode] = working_spans(path)
+        overview = [c for row in load_workbook(path)["Overview"].iter_rows(values_only=True) for c in row if c]
+        assert WORKING_NOTE[mode] in overview  # the Overview says what the Working sheet holds
+    assert spans["all"] == [r.label for r in results]
+    assert spans["flagged"] == [r.label for r in results if r.status is not BeamStatus.PASS]
+    assert spans["none"] == []
+    first = load_workbook(tmp_path / "flagged.xlsx")["Working"].cell(2, 1).value
+    passing = sum(1 for v in statuses.values() if v is BeamStatus.PASS)
+    assert f"{passing} of {len(results)} spans left out" in first
+
+
+def test_working_choice_is_checked():
+    with pytest.raises(ValueError, match="expected one of all, flagged, none"):
+        Report([], schedule(rows=()), working="some")
+
+
+def test_command_line_offers_the_same_working_choices():
+    from beamsched import cli
+    from beamsched.report.table import WORKING_CHOICES
+
+    assert cli.WORKING_CHOICES == WORKING_CHOICES

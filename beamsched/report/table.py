@@ -191,6 +191,9 @@ def span_row(r: BeamResult, index: int, columns: list[CheckColumn]) -> SpanRow:
                    tuple(check_display(c) for c in r.not_checked))
 
 
+WORKING_CHOICES = ("all", "flagged", "none")
+
+
 @dataclass
 class Report:
     """The results of one run and what is known about where they came from."""
@@ -199,8 +202,13 @@ class Report:
     schedule: Schedule
     checked_at: datetime = field(default_factory=lambda: datetime.now(timezone.utc).astimezone())
     version: str = ""
+    # whose calculation the Working sheet holds: every span's ("all"), only the spans that fail,
+    # are incomplete or could not be checked ("flagged"), or none ("none")
+    working: str = "all"
 
     def __post_init__(self) -> None:
+        if self.working not in WORKING_CHOICES:
+            raise ValueError(f"working = {self.working!r}: expected one of {', '.join(WORKING_CHOICES)}")
         if not self.version:
             from .. import __version__
             self.version = __version__
@@ -208,6 +216,12 @@ class Report:
         self.value_keys = value_keys(self.results)
         self.capacity_keys = [k for k in self.value_keys if is_capacity(k)]
         self.rows = [span_row(r, i, self.columns) for i, r in enumerate(self.results)]
+
+    def shows_working(self, row: SpanRow) -> bool:
+        """Whether the Working sheet holds this span's calculation (see ``working``)."""
+        if self.working == "all":
+            return True
+        return self.working == "flagged" and row.result.status is not BeamStatus.PASS
 
     # -- counts and rankings ---------------------------------------------------------------
     def count(self, status: BeamStatus) -> int:

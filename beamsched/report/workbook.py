@@ -31,6 +31,15 @@ from .policies import policies_for
 from .table import LOCATION_WORDS, TITLE_FIELDS, Report, SpanRow, check_display, value_header, value_unit
 
 SHEETS = ("Overview", "Spans", "Working", "Input problems", "About")
+# What the Overview says of the Working sheet, by Report.working (beamsched check --working)
+WORKING_NOTE = {
+    "all": "The Working sheet holds every span's calculation, each row headed by its span: "
+           "filter its Span column to see or print the working of one span.",
+    "flagged": "The Working sheet holds the calculation of the spans that fail, are incomplete or could not be "
+               "checked, each row headed by its span (passing spans left out: --working flagged).",
+    "none": "The Working sheet was left empty on request (--working none): run again with --working all "
+            "for every span's calculation.",
+}
 MAX_ROWS = 1_048_576  # rows in one worksheet (Excel's limit)
 TITLE = "Concrete beam schedule check"
 # The workbook's own default font (the "Normal" style) is the one every cell uses, 10-point Arial.
@@ -457,8 +466,7 @@ class _Writer:
         ws.write_string(row, 0, "The words and numbers carry the meaning; the colours only repeat it, so a "
                                 "greyscale print reads the same.", f.get(italic=True))
         row += 1
-        ws.write_string(row, 0, "The Working sheet holds every span's calculation, each row headed by its span: "
-                                "filter its Span column to see or print the working of one span.", f.get(italic=True))
+        ws.write_string(row, 0, WORKING_NOTE[r.working], f.get(italic=True))
         self.page_setup(ws, None, len(widths) - 1, "Overview")
         ws.fit_to_pages(1, 1)
         ws.set_portrait()
@@ -595,15 +603,23 @@ class _Writer:
         wheres: dict = dict(LOCATION_WORDS)
         values: dict[str, tuple[str, str, str]] = {}  # value key -> (symbol, unit, note)
         row = 1
-        for x in r.rows:
+        if r.working != "all":
+            left_out = sum(1 for x in r.rows if not r.shows_working(x))
+            put(row, 0, f"{WORKING_NOTE[r.working]} {left_out} of {len(r.rows)} spans left out; their "
+                        "results are on the Spans sheet.", italic)
+            row += 2
+        shown = r.rows if r.working == "all" else [x for x in r.rows if r.shows_working(x)]
+        for n_shown, x in enumerate(shown):
             res = x.result
             trace = res.trace if isinstance(res.trace, tuple) else tuple(res.trace)  # a LazyTrace runs once
             label = x.label
             size = 3 + len(trace) + len(res.checks) + len(res.problems) + len(res.values)
             if row + size >= MAX_ROWS:
-                put(row, 0, f"The working of {len(r.rows) - x.index} more spans, from {x.label} on, "
+                put(row, 0, f"The working of {len(shown) - n_shown} more spans, from {x.label} on, "
                             "is not shown: a worksheet holds 1,048,576 rows. Check them in smaller "
-                            "batches to see their working.", bold)
+                            "batches to see their working" + (
+                                ", or write the working of only the spans that fail or are incomplete "
+                                "(--working flagged)." if r.working == "all" else "."), bold)
                 break
             set_row(row, 18)
             word, head_fmt, fill_fmt = heads[res.status]
