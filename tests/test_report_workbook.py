@@ -9,10 +9,10 @@ from openpyxl import load_workbook
 from test_report_support import FAIL_MR, infinite, report, schedule, with_extra_check
 
 import beamsched
+from beamsched.engine import check_schedule
 from beamsched.model import BeamStatus
 from beamsched.report import palette as P
 from beamsched.report.table import Report
-from beamsched.engine import check_schedule
 from beamsched.report.workbook import SHEETS, WORKING_NOTE, sig_format, write_results
 
 
