@@ -42,6 +42,16 @@ def test_torsion_threshold_rectangle(tf, status):
         assert r.status.value == "pass"
 
 
+def test_torsion_over_the_threshold_is_no_utilisation_and_never_governs():
+    # Tf twice the threshold of cl. 11.2.9.1: the ratio is to a threshold, not to a resistance,
+    # so it gives no utilisation; the span's largest utilisation stays a capacity ratio
+    r = span(Tf=2 * 0.25 * TCR_RECT / 1e6)
+    c = find(r, "torsion")
+    assert c.status.value == "not_checked" and c.utilisation is None
+    assert c.demand == pytest.approx(2 * c.capacity)  # both still reported, in kN·m
+    assert r.governing is not None and r.governing.id != "torsion" and r.utilisation < 2
+
+
 def test_torsion_flanged_section_uses_the_smaller_tcr():
     # T: bw 300, h 600, hf 150, bf 1200: overhang min(h - hf = 450, 4 hf = 600, scheduled 450) = 450 (from memory)
     # flanged Acp = 180 000 + 2·450·150 = 315 000, pc = 1800 + 4·450 = 3600: Acp²/pc = 27.56e6 > 18e6 (web alone)
@@ -137,6 +147,7 @@ def test_axial(pf, status):
     assert c.status.value == status
     if status == "not_checked":
         assert c.required and r.status.value == "incomplete"
+        assert c.utilisation is None  # a scope limit, not a resistance: never the governing check
     else:
         assert c.capacity == pytest.approx(540)
 

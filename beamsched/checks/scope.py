@@ -145,7 +145,8 @@ def _axial(ctx: SpanContext, code: DetailingProvisions) -> None:
         ctx.add(CheckResult("scope_axial", "Scope: axial load", None, clause, CheckStatus.NOT_CHECKED,
                             f"Pf = {pf_k:.1f} kN compression exceeds 0.1 f'c Ag = {limit / N_PER_KN:.1f} kN: design it as "
                             "a beam-column (flexure with axial load, slenderness); beamsched checks beams only.",
-                            demand=pf_k, capacity=limit / N_PER_KN, unit="kN", utilisation=inp.Pf / limit))
+                            # against the scope limit, not a resistance: no utilisation (see torsion)
+                            demand=pf_k, capacity=limit / N_PER_KN, unit="kN"))
     elif inp.Pf < 0:
         ctx.add(CheckResult("scope_axial", "Scope: axial load", None, clause, CheckStatus.NOT_CHECKED,
                             f"Pf = {-pf_k:.1f} kN tension: the flexural checks ignore axial force, and tension lowers "
