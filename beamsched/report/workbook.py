@@ -605,9 +605,10 @@ class _Writer:
         row = 1
         if r.working != "all":
             left_out = sum(1 for x in r.rows if not r.shows_working(x))
-            put(row, 0, f"{WORKING_NOTE[r.working]} {left_out} of {len(r.rows)} spans left out; their "
-                        "results are on the Spans sheet.", italic)
-            row += 2
+            put(row, 0, WORKING_NOTE[r.working], italic)  # two short lines: each fits the printed width
+            put(row + 1, 0, f"{left_out} of {len(r.rows)} spans left out; their results are on the Spans sheet.",
+                italic)
+            row += 3
         shown = r.rows if r.working == "all" else [x for x in r.rows if r.shows_working(x)]
         for n_shown, x in enumerate(shown):
             res = x.result
