@@ -105,6 +105,9 @@ def test_template_round_trip(tmp_path):
     s = read_schedule(path)
     assert s.header_row == HEADER_ROW and not [p for p in s.problems if p.severity == "error"]
     assert s.project["project"] == "Harrowgate Depot"
+    # the template's placeholders left unfilled, "(number)", "(initials)" ..., are no title block
+    assert "project_no" not in s.project and "prepared_by" not in s.project and "date" not in s.project
+    assert s.project["revision"] == "A"  # a real value the template fills in is kept
     g1, g2 = s.spans
     assert (g1.mark, g1.span_no, g1.shape, g1.bw, g1.h, g1.hf, g1.span, g1.clear_span) == \
         ("G1", 1, "T", 400, 750, 150, 8500, 8000)

@@ -157,7 +157,10 @@ def read_parameters(grid: Grid | None) -> Defaults:
             continue
         try:
             if p.kind == "text":
-                d.project[p.key] = cv.text(value_cell) or ""
+                text = cv.text(value_cell) or ""
+                if isinstance(p.example, str) and p.example.startswith("(") and text == p.example:
+                    continue  # the template's own placeholder, never filled in: not a project name
+                d.project[p.key] = text
             elif p.kind == "code":
                 d.code = cv.text(value_cell)
             elif p.kind == "system":
