@@ -307,7 +307,10 @@ def test_saved_formula_results_from_calamine_match_openpyxls_values_pass(tmp_pat
                             Cell(247.5, "=B2*2"), Cell(6, "=2*3")]
     assert g.rows[2][1][3] == Cell(300, "=B3*2")  # the shared formula, moved down a row
     if extra:
-        assert g.rows[2][1][4:] == [Cell(None, "=1+1"), Cell("#DIV/0!", "=1/0"), Cell(None, '=""')]
+        # E3 saved without a result stays a formula with no value (a row problem later); G3's saved
+        # result is an empty text (t="str", empty <v>: ECMA-376 Part 1 §18.3.1.4): the spreadsheet
+        # shows it blank, so it is the blank cell (and, last in its row, trimmed)
+        assert g.rows[2][1][4:] == [Cell(None, "=1+1"), Cell("#DIV/0!", "=1/0")]
 
 
 EXAMPLES = int(os.environ.get("BEAMSCHED_FUZZ_EXAMPLES", "60"))
@@ -334,3 +337,30 @@ def test_any_values_read_the_same_both_ways(tmp_path_factory, rows, hidden):
     with zipfile.ZipFile(p) as z:
         assert not scan_sheet(z, "xl/worksheets/sheet1.xml")[1]  # the calamine path is the one compared
     _both_equal(p)
+
+
+def test_a_formula_whose_saved_result_is_empty_text_reads_as_a_blank_demand(tmp_path):
+    # =IF(..., "", ...) saved by a spreadsheet application: t="str" and an empty <v> (ECMA-376
+    # Part 1 §18.3.1.4); a formula with no <v> at all was never calculated and stays a problem
+    from beamsched.schedule import read_schedule
+
+    sheet = (b'<worksheet ' + MAIN + b'><sheetData>'
+             + b'<row r="1">' + b"".join(b'<c r="%s1" t="inlineStr"><is><t>%s</t></is></c>' % (c, t) for c, t in (
+                 (b"A", b"Mark"), (b"B", b"Type"), (b"C", b"bw (mm)"), (b"D", b"h (mm)"), (b"E", b"f'c (MPa)"),
+                 (b"F", b"fy (MPa)"), (b"G", b"Bottom bars"), (b"H", b"Mf+ (kN\xc2\xb7m)"), (b"I", b"Span (m)")))
+             + b'</row>'
+             + b'<row r="2"><c r="A2" t="inlineStr"><is><t>B1</t></is></c><c r="B2" t="inlineStr"><is><t>Rect</t>'
+               b'</is></c><c r="C2"><v>300</v></c><c r="D2"><v>600</v></c><c r="E2"><v>30</v></c><c r="F2"><v>400</v>'
+               b'</c><c r="G2" t="inlineStr"><is><t>3-20M</t></is></c><c r="H2" t="str"><f>IF(1&gt;2,5,"")</f><v></v>'
+               b'</c><c r="I2"><v>6</v></c></row>'
+             + b'<row r="3"><c r="A3" t="inlineStr"><is><t>B2</t></is></c><c r="B3" t="inlineStr"><is><t>Rect</t>'
+               b'</is></c><c r="C3"><v>300</v></c><c r="D3"><v>600</v></c><c r="E3"><v>30</v></c><c r="F3"><v>400</v>'
+               b'</c><c r="G3" t="inlineStr"><is><t>3-20M</t></is></c><c r="H3"><f>IF(1&gt;2,5,"")</f></c>'
+               b'<c r="I3"><v>6</v></c></row>'
+             + b'</sheetData></worksheet>')
+    p = _repack(_book(tmp_path), tmp_path / "blank_results.xlsx", sheet)
+    s = read_schedule(p)
+    (b1,) = s.spans
+    assert b1.mark == "B1" and b1.Mf_pos is None  # blank: not scheduled, never zero
+    (b2,) = s.failures
+    assert "a formula with no saved value" in b2.problems[0].message and "Mf+" in b2.problems[0].column

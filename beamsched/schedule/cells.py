@@ -250,6 +250,42 @@ def _hidden_rows(path: Path, member: str | None) -> frozenset[int]:
     return frozenset(_hidden_in(xml))
 
 
+_CELL = re.compile(rb'<(?:\w+:)?c\b([^>]*)>(.*?)</(?:\w+:)?c>', re.S)
+_REF = re.compile(rb'\br="([A-Z]+)(\d+)"')
+_TEXT_TYPE = re.compile(rb'\bt="str"')
+_EMPTY_VALUE = re.compile(rb'<(?:\w+:)?v\s*/>|<(?:\w+:)?v>\s*</(?:\w+:)?v>')
+
+
+def _column_index(letters: bytes) -> int:
+    n = 0
+    for ch in letters:
+        n = n * 26 + ch - 64
+    return n - 1
+
+
+def empty_text_results(path: Path, member: str | None, rows: set[int]) -> set[tuple[int, int]]:
+    """(row number, 0-based column) of the formula cells in ``rows`` whose saved result is an
+    empty text (``t="str"`` with an empty ``<v>``, as a formula such as ``=IF(..., "", ...)``
+    stores it): openpyxl reads those as None, like a formula saved without any result, but the
+    spreadsheet shows them blank and they are to be read as blank cells."""
+    if not member or not rows:
+        return set()
+    try:
+        with zipfile.ZipFile(path) as z:
+            xml = z.read(member.lstrip("/"))
+    except (KeyError, OSError, zipfile.BadZipFile):
+        return set()
+    out = set()
+    for m in _CELL.finditer(xml):
+        attrs, inner = m.group(1), m.group(2)
+        if not _TEXT_TYPE.search(attrs) or not _EMPTY_VALUE.search(inner) or b"<f" not in inner:
+            continue
+        ref = _REF.search(attrs)
+        if ref is not None and int(ref.group(2)) in rows:
+            out.add((int(ref.group(2)), _column_index(ref.group(1))))
+    return out
+
+
 _BIG = 1e15  # integral floats below this are written without '.' or 'E' in the sheet XML: openpyxl reads ints
 
 
@@ -422,6 +458,12 @@ def _from_saved(grid: Grid, found: list[tuple[int, int, int, str]],
     return left
 
 
+def _result(saved: dict[int, tuple], number: int, j: int) -> object:
+    """The saved value at row ``number``, column ``j`` of a values-only pass (None past its end)."""
+    row = saved.get(number, ())
+    return row[j] if j < len(row) else None
+
+
 def _saved_results(path: Path, grids: list[Grid], formulas: list[list[tuple[int, int, int, str]]]) -> None:
     """Fill in the saved result of every formula cell (None where the file stores none)."""
     import openpyxl
@@ -439,9 +481,14 @@ def _saved_results(path: Path, grids: list[Grid], formulas: list[list[tuple[int,
             for number, values in enumerate(ws.iter_rows(values_only=True, max_row=max(wanted)), start=1):
                 if number in wanted:
                     saved[number] = values
+            results = {(number, j): _result(saved, number, j) for _, j, number, _ in found}
+            no_result = {number for (number, _), value in results.items() if value is None}
+            empty = empty_text_results(path, getattr(ws, "_worksheet_path", None), no_result)
             for i, j, number, formula in found:
-                row = saved.get(number, ())
-                value = row[j] if j < len(row) else None
+                value = results[(number, j)]
+                if value is None and (number, j) in empty:
+                    grid.rows[i][1][j] = EMPTY  # the formula's saved result is an empty text: a blank cell
+                    continue
                 # text that merely starts with '=' reads the same in both passes: it is not a formula
                 grid.rows[i][1][j] = _plain(value) if value == formula else Cell(value, formula)
     finally:
