@@ -41,6 +41,7 @@ def _plain_paths(monkeypatch) -> None:
     monkeypatch.setattr(wbmod, "_cell_writers", lambda ws: (ws.write_string, ws.write_number))
     monkeypatch.setattr(wbmod, "LineCounter", _PlainCounter)
     monkeypatch.setattr(wbmod._Writer, "number_format", lambda self, v: self.f.get(num=wbmod.sig_format(v)))
+    monkeypatch.setattr(wbmod, "_forget_written_rows", lambda ws: None)  # xlsxwriter keeps every row height
 
 
 def _parts(path) -> dict[str, bytes]:
@@ -69,7 +70,10 @@ def _support_report() -> Report:
 def test_fast_paths_write_the_same_package(which, generated, tmp_path, monkeypatch):
     rep = generated if which == "generated" else _support_report()
     fast, plain = tmp_path / "fast.xlsx", tmp_path / "plain.xlsx"
-    wbmod.write_results(rep, fast)
+    with monkeypatch.context() as m:  # forget the written rows often, so that it happens here
+        m.setattr(wbmod, "FORGET_EVERY_SPANS", 2)
+        m.setattr(wbmod, "FORGET_EVERY_ROWS", 2)
+        wbmod.write_results(rep, fast)
     with monkeypatch.context() as m:
         _plain_paths(m)
         wbmod.write_results(rep, plain)
@@ -90,3 +94,21 @@ def test_cell_writers_fall_back_to_the_public_methods():
 
     put, put_number = wbmod._cell_writers(Sheet())
     assert (put(0, 0, "x"), put_number(0, 0, 1.0)) == ("s", "n")
+
+
+def test_written_rows_are_forgotten_as_the_sheet_grows(generated, tmp_path, monkeypatch):
+    # the Working sheet of 60 spans is some 12,000 rows; after each pruning xlsxwriter holds the
+    # heights of only the rows not yet written out (the file is the same: the test above)
+    held = []
+    real = wbmod._forget_written_rows
+
+    def spy(ws):
+        real(ws)
+        held.append((len(ws.row_info), len(ws.row_sizes), ws.previous_row))
+
+    monkeypatch.setattr(wbmod, "_forget_written_rows", spy)
+    monkeypatch.setattr(wbmod, "FORGET_EVERY_SPANS", 4)
+    monkeypatch.setattr(wbmod, "FORGET_EVERY_ROWS", 8)
+    wbmod.write_results(generated, tmp_path / "r.xlsx")
+    assert len(held) > 15 and max(rows for _, _, rows in held) > 5000
+    assert all(info <= 1 and sizes <= 1 for info, sizes, _ in held)

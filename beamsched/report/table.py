@@ -8,10 +8,14 @@ and the plain notes.
 
 from __future__ import annotations
 
+import itertools
 import math
 import re
+from collections import OrderedDict
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
+from typing import overload
 
 from ..model import BeamResult, BeamStatus, CheckResult, CheckStatus, Problem, Schedule
 
@@ -191,6 +195,51 @@ def span_row(r: BeamResult, index: int, columns: list[CheckColumn]) -> SpanRow:
                    tuple(check_display(c) for c in r.not_checked))
 
 
+class SpanRows(Sequence[SpanRow]):
+    """Every span as the writers show it (:class:`SpanRow`), made when read.
+
+    Held all at once, a building's rows take hundreds of megabytes (their notes and per-check
+    tables), yet each writer reads them one after another, once. So a row is made from its
+    result when it is read, and the last few read are kept (a writer reads one row a few times
+    in a row). Indexing, slicing, iteration and ``len`` work as on a list.
+    """
+
+    KEEP = 64
+
+    def __init__(self, results: list[BeamResult], columns: list[CheckColumn]):
+        self._results = results
+        self._columns = columns
+        self._recent: OrderedDict[int, SpanRow] = OrderedDict()
+
+    def __len__(self) -> int:
+        return len(self._results)
+
+    @overload
+    def __getitem__(self, i: int) -> SpanRow: ...
+    @overload
+    def __getitem__(self, i: slice) -> list[SpanRow]: ...
+    def __getitem__(self, i):
+        if isinstance(i, slice):
+            return [self[j] for j in range(*i.indices(len(self)))]
+        n = len(self._results)
+        if i < 0:
+            i += n
+        if not 0 <= i < n:
+            raise IndexError("span row index out of range")
+        row = self._recent.get(i)
+        if row is not None:
+            self._recent.move_to_end(i)
+            return row
+        row = self._recent[i] = span_row(self._results[i], i, self._columns)
+        if len(self._recent) > self.KEEP:
+            self._recent.popitem(last=False)
+        return row
+
+    def __iter__(self) -> Iterator[SpanRow]:
+        for i in range(len(self._results)):
+            yield self[i]
+
+
 WORKING_CHOICES = ("all", "flagged", "none")
 
 
@@ -215,13 +264,16 @@ class Report:
         self.columns = check_columns(self.results)
         self.value_keys = value_keys(self.results)
         self.capacity_keys = [k for k in self.value_keys if is_capacity(k)]
-        self.rows = [span_row(r, i, self.columns) for i, r in enumerate(self.results)]
+        # each span's largest utilisation, the one figure the rankings and the chart need of every span
+        self.utilisations = [max_utilisation(r.checks) for r in self.results]
+        self.rows = SpanRows(self.results, self.columns)
 
-    def shows_working(self, row: SpanRow) -> bool:
+    def shows_working(self, row: SpanRow | BeamResult) -> bool:
         """Whether the Working sheet holds this span's calculation (see ``working``)."""
         if self.working == "all":
             return True
-        return self.working == "flagged" and row.result.status is not BeamStatus.PASS
+        result = row.result if isinstance(row, SpanRow) else row
+        return self.working == "flagged" and result.status is not BeamStatus.PASS
 
     # -- counts and rankings ---------------------------------------------------------------
     def count(self, status: BeamStatus) -> int:
@@ -233,12 +285,14 @@ class Report:
 
     def worst(self, n: int = 10) -> list[SpanRow]:
         """The n spans with the largest utilisation (infinite first), ties in schedule order."""
-        rated = [r for r in self.rows if r.utilisation is not None]
-        return sorted(rated, key=lambda r: (-_sort_value(r.utilisation), r.index))[:n]
+        rated = [i for i, u in enumerate(self.utilisations) if u is not None]
+        top = sorted(rated, key=lambda i: (-_sort_value(self.utilisations[i]), i))[:n]  # type: ignore[arg-type]
+        return [self.rows[i] for i in top]
 
     def incomplete(self, n: int = 10) -> list[SpanRow]:
         """The first n incomplete spans in schedule order (never hidden behind the utilisation ranking)."""
-        return [r for r in self.rows if r.status is BeamStatus.INCOMPLETE][:n]
+        found = (i for i, r in enumerate(self.results) if r.status is BeamStatus.INCOMPLETE)
+        return [self.rows[i] for i in itertools.islice(found, n)]
 
     def all_problems(self) -> list[tuple[int | None, str, Problem]]:
         """(row, span label, problem): the file's own problems, then each row's, in order."""

@@ -159,6 +159,27 @@ def _cell_writers(ws):
     return ws.write_string, ws.write_number
 
 
+FORGET_EVERY_SPANS, FORGET_EVERY_ROWS = 64, 1024  # how often the Working and Spans loops prune
+
+
+def _forget_written_rows(ws) -> None:
+    """Let xlsxwriter forget the heights of the rows it has already written out.
+
+    In constant-memory mode a row goes to disk once a later row is begun, but xlsxwriter keeps
+    every row's height to the end (``row_info``, and ``row_sizes`` for placing pictures): a
+    million-row Working sheet holds some 200 MB of them. Only the rows before the one being
+    filled are forgotten, and only on sheets without pictures (Spans and Working), so the file is
+    the same. Without those attributes (another xlsxwriter) this does nothing."""
+    info, sizes = getattr(ws, "row_info", None), getattr(ws, "row_sizes", None)
+    done = getattr(ws, "previous_row", None)
+    if not (getattr(ws, "constant_memory", False) and isinstance(info, dict) and isinstance(sizes, dict)
+            and isinstance(done, int)):
+        return
+    for table in (info, sizes):
+        for row in [row for row in table if row < done]:
+            del table[row]
+
+
 class _ResultRows:
     """The Working sheet's row for one check result: its utilisation, status, clause and note.
 
@@ -355,15 +376,14 @@ class _Writer:
         bins = P.histogram_bins()
         colours = []
         for label, lo, hi in bins:
-            n = sum(1 for x in r.rows if x.utilisation is not None and (lo < x.utilisation <= hi
-                                                                      or (hi == math.inf and x.utilisation > lo)))
+            n = sum(1 for u in r.utilisations if u is not None and (lo < u <= hi or (hi == math.inf and u > lo)))
             band = P.band_for(hi if math.isfinite(hi) else math.inf)
             colours.append(band.swatch.fill)
             ws.write_string(row, 0, label, f.get(band.swatch, align="center"))
             ws.write_number(row, 1, n, f.get(num="0", align="center"))
             ws.write_string(row, 2, band.name, plain)
             row += 1
-        none = sum(1 for x in r.rows if x.utilisation is None)
+        none = sum(1 for u in r.utilisations if u is None)
         ws.write_string(row, 0, "no check made", f.get(P.NOT_CHECKED_CELL.swatch, align="center"))
         ws.write_number(row, 1, none, f.get(num="0", align="center"))
         ws.write_string(row, 2, "not read, or nothing could be checked", plain)
@@ -379,8 +399,7 @@ class _Writer:
         })
         chart.set_title({"name": "Spans by largest utilisation", "name_font": {"size": 11, "bold": True}})
         chart.set_x_axis({"name": "largest utilisation of the span (demand / capacity)"})
-        most = max([1] + [sum(1 for x in r.rows if x.utilisation is not None and lo < x.utilisation <= hi)
-                          for _, lo, hi in bins])
+        most = max([1] + [sum(1 for u in r.utilisations if u is not None and lo < u <= hi) for _, lo, hi in bins])
         chart.set_y_axis({"name": "spans", "min": 0, "num_format": "0", "major_unit": max(1, math.ceil(most / 8)),
                           "major_gridlines": {"visible": True, "line": {"color": "#D0D0D0"}}})
         chart.set_legend({"none": True})
@@ -511,6 +530,8 @@ class _Writer:
         check_ids = [(n_fixed + j, c.id) for j, c in enumerate(r.columns)]
         capacity_cols = [(n_fixed + len(r.columns) + j, k) for j, k in enumerate(r.capacity_keys)]
         for n, x in enumerate(r.rows, start=1):
+            if n % FORGET_EVERY_ROWS == 0:
+                _forget_written_rows(ws)
             res = x.result
             section = section_text(res.input).replace("\n", "; ")
             understood = "\n".join(t for t in (f"section: {section}" if section else "", understood_text(x)) if t)
@@ -604,13 +625,17 @@ class _Writer:
         values: dict[str, tuple[str, str, str]] = {}  # value key -> (symbol, unit, note)
         row = 1
         if r.working != "all":
-            left_out = sum(1 for x in r.rows if not r.shows_working(x))
+            left_out = sum(1 for x in r.results if not r.shows_working(x))
             put(row, 0, WORKING_NOTE[r.working], italic)  # two short lines: each fits the printed width
             put(row + 1, 0, f"{left_out} of {len(r.rows)} spans left out; their results are on the Spans sheet.",
                 italic)
             row += 3
-        shown = r.rows if r.working == "all" else [x for x in r.rows if r.shows_working(x)]
-        for n_shown, x in enumerate(shown):
+        shown = range(len(r.rows)) if r.working == "all" else [
+            i for i, res in enumerate(r.results) if r.shows_working(res)]
+        for n_shown, i in enumerate(shown):
+            if n_shown % FORGET_EVERY_SPANS == 0:
+                _forget_written_rows(ws)
+            x = r.rows[i]
             res = x.result
             trace = res.trace if isinstance(res.trace, tuple) else tuple(res.trace)  # a LazyTrace runs once
             label = x.label
