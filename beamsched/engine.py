@@ -3,9 +3,6 @@
 from __future__ import annotations
 
 import math
-from collections import OrderedDict
-from collections.abc import Iterator, Sequence
-from typing import overload
 
 from .checks import CHECK_MODULES
 from .checks.context import SpanContext
@@ -16,9 +13,11 @@ from .model import (
     BeamStatus,
     PackedChecks,
     Problem,
+    RecentlyRead,
     RowFailure,
     Schedule,
     TraceLine,
+    WorkedOutTuple,
     beam_status,
 )
 from .section import place_bars
@@ -149,7 +148,7 @@ def _understood(ctx: SpanContext) -> None:
             " (explicit d, lumped)" if placed and placed[0].lumped else "")
 
 
-class LazyTrace(Sequence[TraceLine]):
+class LazyTrace(WorkedOutTuple):
     """The calculation trace of one span, worked out when it is first read.
 
     A whole schedule's trace is some 200 lines a span: held as objects, 100,000 spans would
@@ -162,44 +161,21 @@ class LazyTrace(Sequence[TraceLine]):
     """
 
     __slots__ = ("_inp", "_code")
-    _recent: OrderedDict[int, tuple[LazyTrace, tuple[TraceLine, ...]]] = OrderedDict()
     KEEP = 32  # traces kept after reading (a writer reads a span's trace a few times in a row)
+    _recent = RecentlyRead(KEEP)
 
     def __init__(self, inp: BeamInput, code: DesignCode):
         self._inp = inp
         self._code = code
 
     def lines(self) -> tuple[TraceLine, ...]:
-        recent = LazyTrace._recent
-        hit = recent.get(id(self))
-        if hit is not None:  # the entry holds self, so its id cannot have been reused
-            recent.move_to_end(id(self))
-            return hit[1]
-        lines = check_beam(self._inp, self._code).trace
-        recent[id(self)] = (self, lines)  # type: ignore[assignment]
-        if len(recent) > self.KEEP:
-            recent.popitem(last=False)
-        return lines  # type: ignore[return-value]
+        """The trace, worked out again (or as last worked out)."""
+        held = LazyTrace._recent.get(self)
+        if held is not None:
+            return held
+        return LazyTrace._recent.put(self, check_beam(self._inp, self._code).trace)  # type: ignore[arg-type]
 
-    def __len__(self) -> int:
-        return len(self.lines())
-
-    @overload
-    def __getitem__(self, i: int) -> TraceLine: ...
-    @overload
-    def __getitem__(self, i: slice) -> tuple[TraceLine, ...]: ...
-    def __getitem__(self, i):
-        return self.lines()[i]
-
-    def __iter__(self) -> Iterator[TraceLine]:
-        return iter(self.lines())
-
-    def __eq__(self, other: object) -> bool:
-        if isinstance(other, Sequence) and not isinstance(other, (str, bytes)):
-            return self.lines() == tuple(other)
-        return NotImplemented
-
-    __hash__ = None  # type: ignore[assignment]
+    items = lines
 
     def __repr__(self) -> str:
         return f"LazyTrace({self._inp.mark!r}, span {self._inp.span_no})"

@@ -17,7 +17,7 @@ from collections import OrderedDict
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from enum import Enum
-from typing import Literal, overload
+from typing import Literal
 
 from .bars import BarArrangement, Stirrups
 
@@ -166,11 +166,67 @@ class CheckResult:
         return self.id if self.location is None else f"{self.id}@{self.location}"
 
 
+class RecentlyRead:
+    """The values last worked out for objects that are read a few times in a row (a writer
+    reads one span's trace or checks several times, then moves on): at most ``keep`` are held.
+    Each entry holds its object, so the object's id cannot be reused while the entry lives."""
+
+    def __init__(self, keep: int):
+        self.keep = keep
+        self._held: OrderedDict[int, tuple[object, tuple]] = OrderedDict()
+
+    def get(self, owner: object) -> tuple | None:
+        hit = self._held.get(id(owner))
+        if hit is None:
+            return None
+        self._held.move_to_end(id(owner))
+        return hit[1]
+
+    def put(self, owner: object, value: tuple) -> tuple:
+        self._held[id(owner)] = (owner, value)
+        if len(self._held) > self.keep:
+            self._held.popitem(last=False)
+        return value
+
+
+class WorkedOutTuple(Sequence):
+    """A read-only sequence whose items are a tuple worked out when first read (:meth:`items`):
+    indexing, slicing, iteration, ``len``, equality with any sequence and ``+`` behave as on
+    the tuple itself."""
+
+    __slots__ = ()
+
+    def items(self) -> tuple:
+        raise NotImplementedError
+
+    def __len__(self) -> int:
+        return len(self.items())
+
+    def __getitem__(self, i):
+        return self.items()[i]
+
+    def __iter__(self) -> Iterator:
+        return iter(self.items())
+
+    def __eq__(self, other: object) -> bool:
+        if isinstance(other, Sequence) and not isinstance(other, (str, bytes)):
+            return self.items() == tuple(other)
+        return NotImplemented
+
+    def __add__(self, other: object) -> tuple:
+        return self.items() + tuple(other)  # type: ignore[arg-type]
+
+    def __radd__(self, other: object) -> tuple:
+        return tuple(other) + self.items()  # type: ignore[arg-type]
+
+    __hash__ = None  # type: ignore[assignment]
+
+
 _STATUS_CODES = {CheckStatus.PASS: 0, CheckStatus.FAIL: 1, CheckStatus.NOT_CHECKED: 2}
 _STATUSES = tuple(_STATUS_CODES)
 
 
-class PackedChecks(Sequence[CheckResult]):
+class PackedChecks(WorkedOutTuple):
     """One span's check results, held compactly: a read-only sequence of :class:`CheckResult`.
 
     A building's results are millions of checks; as objects each costs a few hundred bytes
@@ -184,8 +240,8 @@ class PackedChecks(Sequence[CheckResult]):
 
     __slots__ = ("_kinds", "_status", "_messages", "_numbers", "_absent", "_ints")
     _kind_lists: dict[tuple, tuple] = {}
-    _recent: OrderedDict[int, tuple[PackedChecks, tuple[CheckResult, ...]]] = OrderedDict()
     KEEP = 64
+    _recent = RecentlyRead(KEEP)
 
     def __init__(self, checks: Sequence[CheckResult]):
         kinds = tuple((c.id, c.label, c.location, c.clause, c.unit, c.required) for c in checks)
@@ -215,48 +271,19 @@ class PackedChecks(Sequence[CheckResult]):
         return int(v) if self._ints & bit else v
 
     def unpacked(self) -> tuple[CheckResult, ...]:
-        recent = PackedChecks._recent
-        hit = recent.get(id(self))
-        if hit is not None:  # the entry holds self, so its id cannot have been reused
-            recent.move_to_end(id(self))
-            return hit[1]
+        """The results, as packed."""
+        held = PackedChecks._recent.get(self)
+        if held is not None:
+            return held
         value = self._value
-        out = tuple(
+        return PackedChecks._recent.put(self, tuple(
             CheckResult(cid, label, loc, clause, _STATUSES[status], message, value(3 * i), value(3 * i + 1), unit,
                         value(3 * i + 2), required)
             for i, ((cid, label, loc, clause, unit, required), status, message)
             in enumerate(zip(self._kinds, self._status, self._messages, strict=True))
-        )
-        recent[id(self)] = (self, out)
-        if len(recent) > self.KEEP:
-            recent.popitem(last=False)
-        return out
+        ))
 
-    def __len__(self) -> int:
-        return len(self._status)
-
-    @overload
-    def __getitem__(self, i: int) -> CheckResult: ...
-    @overload
-    def __getitem__(self, i: slice) -> tuple[CheckResult, ...]: ...
-    def __getitem__(self, i):
-        return self.unpacked()[i]
-
-    def __iter__(self) -> Iterator[CheckResult]:
-        return iter(self.unpacked())
-
-    def __eq__(self, other: object) -> bool:
-        if isinstance(other, Sequence) and not isinstance(other, (str, bytes)):
-            return self.unpacked() == tuple(other)
-        return NotImplemented
-
-    def __add__(self, other: object) -> tuple[CheckResult, ...]:
-        return self.unpacked() + tuple(other)  # type: ignore[arg-type]
-
-    def __radd__(self, other: object) -> tuple[CheckResult, ...]:
-        return tuple(other) + self.unpacked()  # type: ignore[arg-type]
-
-    __hash__ = None  # type: ignore[assignment]
+    items = unpacked
 
     def __repr__(self) -> str:
         return f"PackedChecks({list(self.unpacked())!r})"

@@ -72,6 +72,7 @@ CASES = [
     ("unknown end", {"Left end": "roller"}, "Left end", ["simple, continuous or free"]),
     ("clear span over span", {"Clear span (m)": 7.5}, "Clear span (m)", ["no more than the span"]),
     ("span no. not whole", {"Span no.": 1.5}, "Span no.", ["whole"]),
+    ("span no. infinite", {"Span no.": "INF"}, "Span no.", ["whole"]),  # float('INF') reads; int() cannot
     ("excel error value", {"Vf L (kN)": "#DIV/0!"}, "Vf L (kN)", ["error #DIV/0!"]),
     # a spreadsheet turns '4-25' typed into a cell into the 4th of a month
     ("date in a bar column", {"Top bars R": datetime.datetime(2026, 4, 25)}, "Top bars R", ["a date", "as Text"]),

@@ -240,14 +240,19 @@ def scan_sheet(z: zipfile.ZipFile, member: str) -> tuple[frozenset[int], bool]:
 
 def _hidden_rows(path: Path, member: str | None) -> frozenset[int]:
     """Rows the workbook hides (a drafter's way of setting rows aside): they are still read."""
+    xml = _sheet_xml(path, member)
+    return frozenset() if xml is None else frozenset(_hidden_in(xml))
+
+
+def _sheet_xml(path: Path, member: str | None) -> bytes | None:
+    """A sheet part's XML (None when the part cannot be read: the caller then knows nothing more)."""
     if not member:
-        return frozenset()
+        return None
     try:
         with zipfile.ZipFile(path) as z:
-            xml = z.read(member.lstrip("/"))
+            return z.read(member.lstrip("/"))
     except (KeyError, OSError, zipfile.BadZipFile):
-        return frozenset()
-    return frozenset(_hidden_in(xml))
+        return None
 
 
 _CELL = re.compile(rb'<(?:\w+:)?c\b([^>]*)>(.*?)</(?:\w+:)?c>', re.S)
@@ -268,12 +273,8 @@ def empty_text_results(path: Path, member: str | None, rows: set[int]) -> set[tu
     empty text (``t="str"`` with an empty ``<v>``, as a formula such as ``=IF(..., "", ...)``
     stores it): openpyxl reads those as None, like a formula saved without any result, but the
     spreadsheet shows them blank and they are to be read as blank cells."""
-    if not member or not rows:
-        return set()
-    try:
-        with zipfile.ZipFile(path) as z:
-            xml = z.read(member.lstrip("/"))
-    except (KeyError, OSError, zipfile.BadZipFile):
+    xml = _sheet_xml(path, member) if rows else None
+    if xml is None:
         return set()
     out = set()
     for m in _CELL.finditer(xml):

@@ -214,7 +214,7 @@ def _peek_int(cells, i: int | None) -> int | None:
     s = _peek(cells, i)
     try:
         return int(float(s)) if s is not None else None
-    except ValueError:
+    except (ValueError, OverflowError):  # not a number, or 'INF' (float reads it, int cannot)
         return None
 
 
