@@ -22,6 +22,11 @@ from .model import (
 )
 from .section import place_bars
 
+# Not a limit of the standard: the smallest web width or depth read as millimetres. Joist ribs
+# are at least 100 mm wide (common practice), so anything under 50 mm is a unit slip (metres or
+# centimetres typed in a millimetre column), and its bars could not be placed anyway.
+MIN_SECTION_MM = 50.0
+
 # Field names as the schedule calls them, for messages.
 FIELD_LABELS = {
     "bw": "bw", "h": "h", "hf": "hf", "bf": "bf", "fc": "f'c", "fy": "fy", "fyt": "fyt",
@@ -55,6 +60,11 @@ def validate(inp: BeamInput, code: DesignCode) -> list[Problem]:
     for f in ("fyt", "span", "clear_span", "agg", "clear_to_next_web", "layer_clear", "hf", "bf", "d_bottom", "d_top"):
         if finite(f) and getattr(inp, f) <= 0:
             bad(f, getattr(inp, f), "a positive number")
+    for f in ("bw", "h"):
+        v = getattr(inp, f)
+        if isinstance(v, (int, float)) and math.isfinite(v) and 0 < v < MIN_SECTION_MM:
+            bad(f, v, f"at least {MIN_SECTION_MM:g} mm: no beam is that small, so the value is probably in metres "
+                      "or centimetres; say so in the header, e.g. 'h (m)'")
     for f in ("cover_top", "cover_bottom"):
         if finite(f) and getattr(inp, f) < 0:
             bad(f, getattr(inp, f), "zero or more (clear cover to the stirrups, mm)")

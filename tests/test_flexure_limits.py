@@ -163,6 +163,10 @@ def test_support_sagging_needs_the_bottom_bars_at_the_support():
     (dict(d_bottom=650), "d", "less than h = 600 mm"),
     (dict(bw=0), "bw", "a positive number"),
     (dict(h=-600), "h", "a positive number"),
+    # not limits of the standard: under 50 mm is a unit slip (joist ribs are 100 mm and more:
+    # common practice)
+    (dict(h=0.6), "h", "probably in metres"),
+    (dict(bw=30), "bw", "at least 50 mm"),
     (dict(Mf_pos=-20), "Mf+", "zero or more"),
 ])
 def test_input_errors_name_the_field(kwargs, field, fragment):
