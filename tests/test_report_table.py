@@ -50,3 +50,18 @@ def test_every_note_names_its_clause(message, clause, expected):
     c = CheckResult("shear" if not message else "x", "Shear", "left", clause,
                     CheckStatus.NOT_CHECKED if not message else CheckStatus.FAIL, message)
     assert check_note(c) == expected
+
+
+def test_the_governing_failure_gives_the_first_note():
+    from test_report_support import failing_input, with_extra_check
+
+    from beamsched.engine import check_beam
+    from beamsched.report.table import check_columns, span_row
+
+    r = check_beam(failing_input())  # flexure fails at about 2.3 (Mf+ 280 against Mr about 124 kN·m)
+    first_fail = next(c for c in r.checks if c.status is CheckStatus.FAIL)
+    assert span_row(r, 0, check_columns([r])).notes[0] == check_note(first_fail)
+    worse = with_extra_check(r, u=5.0)  # a later check fails worse: it governs, and its note comes first
+    row = span_row(worse, 0, check_columns([worse]))
+    assert worse.governing.id == "crack_control" and row.notes[0] == check_note(worse.governing)
+    assert check_note(first_fail) in row.notes[1:]  # every failure still has its note

@@ -182,7 +182,12 @@ def span_row(r: BeamResult, index: int, columns: list[CheckColumn]) -> SpanRow:
     if r.status is BeamStatus.ERROR:
         notes += [problem_note(p) for p in r.problems] or ["Not read: the row could not be read."]
     else:
-        notes += [check_note(c) for c in r.checks if c.status is CheckStatus.FAIL]
+        failed = [c for c in r.checks if c.status is CheckStatus.FAIL]
+        gov = r.governing
+        if gov is not None and gov in failed:  # the governing check's note first: it says why the span fails most
+            failed.remove(gov)
+            failed.insert(0, gov)
+        notes += [check_note(c) for c in failed]
         # checks the span needed come before reminders, so the first note says why it is incomplete
         notes += [check_note(c) for c in r.checks if c.status is CheckStatus.NOT_CHECKED and c.required]
         notes += [check_note(c) for c in r.checks if c.status is CheckStatus.NOT_CHECKED and not c.required]
