@@ -180,10 +180,10 @@ class LazyTrace(WorkedOutTuple):
 
     def lines(self) -> tuple[TraceLine, ...]:
         """The trace, worked out again (or as last worked out)."""
-        held = LazyTrace._recent.get(self)
+        held = LazyTrace._recent.get(id(self))
         if held is not None:
             return held
-        return LazyTrace._recent.put(self, check_beam(self._inp, self._code).trace)  # type: ignore[arg-type]
+        return LazyTrace._recent.put(id(self), check_beam(self._inp, self._code).trace, self)
 
     items = lines
 

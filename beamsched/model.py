@@ -167,23 +167,24 @@ class CheckResult:
 
 
 class RecentlyRead:
-    """The values last worked out for objects that are read a few times in a row (a writer
-    reads one span's trace or checks several times, then moves on): at most ``keep`` are held.
-    Each entry holds its object, so the object's id cannot be reused while the entry lives."""
+    """The values last worked out for things read a few times in a row (a writer reads one
+    span's trace, checks or row several times, then moves on): at most ``keep`` are held.
+    A value keyed by an object's id is put with that ``owner``: the entry then holds the
+    object, so its id cannot be reused while the entry lives."""
 
     def __init__(self, keep: int):
         self.keep = keep
-        self._held: OrderedDict[int, tuple[object, tuple]] = OrderedDict()
+        self._held: OrderedDict[object, tuple[object, object]] = OrderedDict()
 
-    def get(self, owner: object) -> tuple | None:
-        hit = self._held.get(id(owner))
+    def get(self, key: object):
+        hit = self._held.get(key)
         if hit is None:
             return None
-        self._held.move_to_end(id(owner))
+        self._held.move_to_end(key)
         return hit[1]
 
-    def put(self, owner: object, value: tuple) -> tuple:
-        self._held[id(owner)] = (owner, value)
+    def put(self, key: object, value, owner: object = None):
+        self._held[key] = (owner, value)
         if len(self._held) > self.keep:
             self._held.popitem(last=False)
         return value
@@ -272,16 +273,16 @@ class PackedChecks(WorkedOutTuple):
 
     def unpacked(self) -> tuple[CheckResult, ...]:
         """The results, as packed."""
-        held = PackedChecks._recent.get(self)
+        held = PackedChecks._recent.get(id(self))
         if held is not None:
             return held
         value = self._value
-        return PackedChecks._recent.put(self, tuple(
+        return PackedChecks._recent.put(id(self), tuple(
             CheckResult(cid, label, loc, clause, _STATUSES[status], message, value(3 * i), value(3 * i + 1), unit,
                         value(3 * i + 2), required)
             for i, ((cid, label, loc, clause, unit, required), status, message)
             in enumerate(zip(self._kinds, self._status, self._messages, strict=True))
-        ))
+        ), self)
 
     items = unpacked
 

@@ -11,13 +11,12 @@ from __future__ import annotations
 import itertools
 import math
 import re
-from collections import OrderedDict
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
 from typing import overload
 
-from ..model import BeamResult, BeamStatus, CheckResult, CheckStatus, Problem, Schedule
+from ..model import BeamResult, BeamStatus, CheckResult, CheckStatus, Problem, RecentlyRead, Schedule
 
 LOCATION_WORDS = {"left": "left", "mid": "mid", "right": "right", None: ""}
 
@@ -214,7 +213,7 @@ class SpanRows(Sequence[SpanRow]):
     def __init__(self, results: list[BeamResult], columns: list[CheckColumn]):
         self._results = results
         self._columns = columns
-        self._recent: OrderedDict[int, SpanRow] = OrderedDict()
+        self._recent = RecentlyRead(self.KEEP)
 
     def __len__(self) -> int:
         return len(self._results)
@@ -232,12 +231,8 @@ class SpanRows(Sequence[SpanRow]):
         if not 0 <= i < n:
             raise IndexError("span row index out of range")
         row = self._recent.get(i)
-        if row is not None:
-            self._recent.move_to_end(i)
-            return row
-        row = self._recent[i] = span_row(self._results[i], i, self._columns)
-        if len(self._recent) > self.KEEP:
-            self._recent.popitem(last=False)
+        if row is None:
+            row = self._recent.put(i, span_row(self._results[i], i, self._columns))
         return row
 
     def __iter__(self) -> Iterator[SpanRow]:

@@ -84,18 +84,23 @@ def _block(outline: tuple[Rect, ...], a: float) -> tuple[float, float]:
     return area, moment
 
 
-def _overlap(bar: SolverBar, a: float) -> float:
+def _covered(top: float, db: float, depth: float, a: float) -> float:
     """Fraction of a round bar's area lying above depth a (the circular segment), so that the
-    concrete a bar displaces enters the balance smoothly as the block edge crosses it."""
-    if bar.db <= 0:
-        return 1.0 if bar.depth < a else 0.0
-    t = (a - (bar.depth - bar.db / 2)) / bar.db
+    concrete a bar displaces enters the balance smoothly as the block edge crosses it. ``top``
+    is the depth of the bar's top (depth - db/2); a bar of no diameter counts whole or not at all."""
+    if db <= 0:
+        return 1.0 if depth < a else 0.0
+    t = (a - top) / db
     if t <= 0.0:
         return 0.0
     if t >= 1.0:
         return 1.0
     theta = 2.0 * math.acos(1.0 - 2.0 * t)
     return (theta - math.sin(theta)) / (2.0 * math.pi)
+
+
+def _overlap(bar: SolverBar, a: float) -> float:
+    return _covered(bar.depth - bar.db / 2, bar.db, bar.depth, a)
 
 
 def _displaced_scale(bars: tuple[SolverBar, ...], a: float, block_area: float) -> float:
@@ -106,14 +111,20 @@ def _displaced_scale(bars: tuple[SolverBar, ...], a: float, block_area: float) -
     return 1.0 if displaced <= block_area else block_area / displaced
 
 
-def _bar_state(b: SolverBar, c: float, a: float, k: float, fcd: float, fy: float, phi_s: float, Es: float,
-               eps_cu: float) -> BarState:
-    """One bar at neutral-axis depth c: strain, stress (capped at fy; zero for an untied bar) and
-    force phi_s As fs less the concrete it displaces (scaled by k, see _displaced_scale)."""
+def _bar_force(b: SolverBar, c: float, a: float, k: float, fcd: float, fy: float, phi_s: float, Es: float,
+               eps_cu: float) -> tuple[float, float, float, float]:
+    """One bar at neutral-axis depth c: (strain, stress capped at fy and zero for an untied bar,
+    force phi_s As fs less the concrete it displaces, that displaced concrete scaled by k: see
+    _displaced_scale)."""
     strain = eps_cu * (c - b.depth) / c
     stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
     displaced = k * fcd * b.area * _overlap(b, a)
-    return BarState(b, strain, stress, phi_s * b.area * stress - displaced, displaced)
+    return strain, stress, phi_s * b.area * stress - displaced, displaced
+
+
+def _bar_state(b: SolverBar, c: float, a: float, k: float, fcd: float, fy: float, phi_s: float, Es: float,
+               eps_cu: float) -> BarState:
+    return BarState(b, *_bar_force(b, c, a, k, fcd, fy, phi_s, Es, eps_cu))
 
 
 def _neutral_axis(
@@ -125,14 +136,13 @@ def _neutral_axis(
     bands = tuple((r.y0, r.y1, r.width) for r in outline)
     # per bar: area, depth, top of the bar (where the block edge starts to reach it), diameter, counted
     steel = tuple((b.area, b.depth, b.depth - b.db / 2, b.db, b.counted) for b in bars)
-    acos, sin, two_pi = math.acos, math.sin, 2.0 * math.pi
 
     def imbalance(c: float) -> float:
-        """Net compression (N) at neutral-axis depth c; increases with c. (The arithmetic of
-        _block, _overlap and _bar_state, written out inline: this is the solver's inner loop.)"""
+        """Net compression (N) at neutral-axis depth c; increases with c. (The solver's inner
+        loop: each bar's stress written out here, without the state a trace needs.)"""
         a = beta1 * c
         area = 0.0
-        for y0, y1, width in bands:
+        for y0, y1, width in bands:  # _block's area
             bottom = y1 if y1 < a else a
             if bottom <= y0:
                 break
@@ -144,15 +154,7 @@ def _neutral_axis(
                 stress = Es * (eps_cu * (c - depth) / c)
                 total += phi_s * area_i * (fy if stress > fy else (-fy if stress < -fy else stress))
             if a > top:
-                if db <= 0:
-                    displaced += area_i if depth < a else 0.0
-                    continue
-                t = (a - top) / db
-                if t >= 1.0:
-                    displaced += area_i
-                else:
-                    theta = 2.0 * acos(1.0 - 2.0 * t)
-                    displaced += area_i * ((theta - sin(theta)) / two_pi)
+                displaced += area_i * _covered(top, db, depth, a)
         return total - fcd * (displaced if displaced < area else area)
 
     lo, hi = 1e-9 * h, h
@@ -193,10 +195,7 @@ def moment_resistance(
     Cc = fcd * area
     yc = first / area if area > 0 else 0.0
     k = _displaced_scale(bars, a, area)
-    moment = 0.0
-    for b in bars:  # _bar_state's force, without the state object
-        stress = max(-fy, min(fy, Es * (eps_cu * (c - b.depth) / c))) if b.counted else 0.0
-        moment += (phi_s * b.area * stress - k * fcd * b.area * _overlap(b, a)) * b.depth
+    moment = sum(_bar_force(b, c, a, k, fcd, fy, phi_s, Es, eps_cu)[2] * b.depth for b in bars)
     return max(-(Cc * yc + moment), 0.0)
 
 
