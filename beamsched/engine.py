@@ -64,7 +64,7 @@ def validate(inp: BeamInput, code: DesignCode) -> list[Problem]:
         v = getattr(inp, f)
         if isinstance(v, (int, float)) and math.isfinite(v) and 0 < v < MIN_SECTION_MM:
             bad(f, v, f"at least {MIN_SECTION_MM:g} mm: no beam is that small, so the value is probably in metres "
-                      "or centimetres; say so in the header, e.g. 'h (m)'")
+                      f"or centimetres; say so in the header, e.g. '{FIELD_LABELS[f]} (m)'")
     for f in ("cover_top", "cover_bottom"):
         if finite(f) and getattr(inp, f) < 0:
             bad(f, getattr(inp, f), "zero or more (clear cover to the stirrups, mm)")

@@ -167,6 +167,7 @@ def test_support_sagging_needs_the_bottom_bars_at_the_support():
     # common practice)
     (dict(h=0.6), "h", "probably in metres"),
     (dict(bw=30), "bw", "at least 50 mm"),
+    (dict(bw=0.3), "bw", "e.g. 'bw (m)'"),
     (dict(Mf_pos=-20), "Mf+", "zero or more"),
 ])
 def test_input_errors_name_the_field(kwargs, field, fragment):
