@@ -158,37 +158,95 @@ def _understood(ctx: SpanContext) -> None:
             " (explicit d, lumped)" if placed and placed[0].lumped else "")
 
 
+CHUNK_SPANS = 512  # spans checked together: their sections solved in one set of columns
+
+
+class SpansToTrace:
+    """The spans of one chunk of a schedule whose traces have not been worked out: the first
+    trace read works out the traces of the whole chunk at once (the same check, with the trace
+    kept), and the chunk's traces are then kept until others are read."""
+
+    __slots__ = ("inputs", "code", "__weakref__")
+
+    def __init__(self, inputs: list[BeamInput], code: DesignCode):
+        self.inputs = inputs
+        self.code = code
+
+
 class LazyTrace(WorkedOutTuple):
     """The calculation trace of one span, worked out when it is first read.
 
     A whole schedule's trace is some 200 lines a span: held as objects, 100,000 spans would
     take gigabytes, and the results workbook shows the working of only the spans that fit on
     one worksheet. So :func:`check_schedule` keeps, for each span, only what makes its trace
-    (the input and the design code) and this sequence runs :func:`check_beam` again, with the
-    trace, when a writer reads it. The lines are the same as an eager run's: the checks are
-    pure functions of the input and the code (``tests/test_fast_path.py`` compares them).
-    The last few traces read are kept, so reading one span's trace twice costs one run.
+    (the input, the design code and the spans checked with it) and this sequence runs the checks
+    of those spans again, with the trace, when a writer reads one. The lines are the same as an
+    eager run's: the checks are pure functions of the input and the code, and a span's numbers
+    do not depend on the spans solved with it (``tests/test_fast_path.py`` compares them).
+    The traces last worked out are kept, so reading a chunk's traces in order costs one run.
     """
 
-    __slots__ = ("_inp", "_code")
-    KEEP = 32  # traces kept after reading (a writer reads a span's trace a few times in a row)
+    __slots__ = ("_chunk", "_index")
+    KEEP = 2 * CHUNK_SPANS  # traces kept after reading (a writer reads a span's trace a few times in a row)
     _recent = RecentlyRead(KEEP)
 
-    def __init__(self, inp: BeamInput, code: DesignCode):
-        self._inp = inp
-        self._code = code
+    def __init__(self, chunk: SpansToTrace, index: int):
+        self._chunk = chunk
+        self._index = index
 
     def lines(self) -> tuple[TraceLine, ...]:
         """The trace, worked out again (or as last worked out)."""
-        held = LazyTrace._recent.get(id(self))
+        key = (id(self._chunk), self._index)
+        held = LazyTrace._recent.get(key)
         if held is not None:
             return held
-        return LazyTrace._recent.put(id(self), check_beam(self._inp, self._code).trace, self)
+        chunk = self._chunk
+        traces = [r.trace for r in _check_spans(chunk.inputs, chunk.code, tracing=True)]
+        for i, trace in enumerate(traces):
+            LazyTrace._recent.put((id(chunk), i), trace, chunk)
+        return traces[self._index]  # type: ignore[return-value]
 
     items = lines
 
     def __repr__(self) -> str:
-        return f"LazyTrace({self._inp.mark!r}, span {self._inp.span_no})"
+        inp = self._chunk.inputs[self._index]
+        return f"LazyTrace({inp.mark!r}, span {inp.span_no})"
+
+
+def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool) -> list[BeamResult]:
+    """Check spans together: each check module first works out what it can for all of them at
+    once (``prepare``: the flexural sections are solved in one set of columns), then makes each
+    span's results (``run``). Without ``tracing`` the results are packed and each trace is a
+    :class:`LazyTrace`."""
+    out: list[BeamResult | None] = [None] * len(inputs)
+    contexts: list[tuple[int, SpanContext]] = []
+    for i, inp in enumerate(inputs):
+        problems = validate(inp, code)
+        if problems:
+            out[i] = BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR,
+                                problems=tuple(problems) + inp.warnings, assumed=inp.assumed, input=inp)
+            continue
+        ctx = SpanContext(inp, code, tracing=tracing)
+        _understood(ctx)
+        contexts.append((i, ctx))
+    spans = [ctx for _, ctx in contexts]
+    for module in CHECK_MODULES:
+        prepare = getattr(module, "prepare", None)
+        if prepare is not None:
+            prepare(spans)
+    chunk = None if tracing else SpansToTrace(inputs, code)
+    for i, ctx in contexts:
+        for module in CHECK_MODULES:
+            module.run(ctx)
+        checks = tuple(ctx.results)
+        inp = ctx.inp
+        out[i] = BeamResult(
+            inp.mark, inp.span_no, inp.row, beam_status(checks),
+            checks=checks if tracing else PackedChecks(checks), values=dict(ctx.values),
+            trace=tuple(ctx.trace) if chunk is None else LazyTrace(chunk, i),  # type: ignore[arg-type]
+            problems=inp.warnings, assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
+        )
+    return out  # type: ignore[return-value]
 
 
 def check_beam(inp: BeamInput, code: DesignCode | str | None = None, *, lazy_trace: bool = False) -> BeamResult:
@@ -201,21 +259,7 @@ def check_beam(inp: BeamInput, code: DesignCode | str | None = None, *, lazy_tra
     :class:`~beamsched.model.PackedChecks` (equal results, a fraction of the memory).
     """
     code = code if isinstance(code, DesignCode) else get_code(code)
-    problems = validate(inp, code)
-    if problems:
-        return BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR,
-                          problems=tuple(problems) + inp.warnings, assumed=inp.assumed, input=inp)
-    ctx = SpanContext(inp, code, tracing=not lazy_trace)
-    _understood(ctx)
-    for module in CHECK_MODULES:
-        module.run(ctx)
-    checks = tuple(ctx.results)
-    return BeamResult(
-        inp.mark, inp.span_no, inp.row, beam_status(checks),
-        checks=PackedChecks(checks) if lazy_trace else checks, values=dict(ctx.values),
-        trace=LazyTrace(inp, code) if lazy_trace else tuple(ctx.trace),  # type: ignore[arg-type]
-        problems=inp.warnings, assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
-    )
+    return _check_spans([inp], code, tracing=not lazy_trace)[0]
 
 
 def check_schedule(schedule: Schedule, code: DesignCode | str | None = None, *,
@@ -223,13 +267,25 @@ def check_schedule(schedule: Schedule, code: DesignCode | str | None = None, *,
     """Check every row of a schedule, in schedule order; unreadable rows come back as
     ``error`` results carrying their problems, so nothing is lost.
 
-    Each result's trace is worked out when it is read (``lazy_trace``, see :class:`LazyTrace`);
+    The spans are checked in chunks of :data:`CHUNK_SPANS` (see :func:`_check_spans`). Each
+    result's trace is worked out when it is read (``lazy_trace``, see :class:`LazyTrace`);
     ``lazy_trace=False`` keeps every trace line from the start."""
     code = code if isinstance(code, DesignCode) else get_code(code or schedule.code)
-    out = []
+    out: list[BeamResult] = []
+    pending: list[BeamInput] = []
+
+    def flush() -> None:
+        nonlocal pending
+        out.extend(_check_spans(pending, code, tracing=not lazy_trace))
+        pending = []  # a new list: the chunk's traces keep theirs
+
     for row in schedule.rows:
         if isinstance(row, RowFailure):
+            flush()
             out.append(BeamResult(row.mark, row.span_no, row.row, BeamStatus.ERROR, problems=row.problems))
         else:
-            out.append(check_beam(row, code, lazy_trace=lazy_trace))
+            pending.append(row)
+            if len(pending) >= CHUNK_SPANS:
+                flush()
+    flush()
     return out

@@ -8,6 +8,7 @@ flexural tension steel) without recomputing or reformatting anything.
 from __future__ import annotations
 
 import sys
+from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Literal
 
@@ -15,7 +16,7 @@ from ..bars import BarArrangement
 from ..codes import DesignCode, FlangeWidth
 from ..model import BeamInput, CheckResult, Location, TraceLine
 from ..section import PlacedBars, Section, centroid_depth, place_bars
-from ..solve.flexure import FlexureSolution, SolverBar, solve_flexure
+from ..solve.flexure import FlexureSolution, SectionColumns, SolverBar, solution_of, solve_columns
 
 Sense = Literal["pos", "neg"]
 End = Literal["left", "right"]
@@ -38,6 +39,8 @@ class FlexureCase:
     compression_tied: bool
     d: float  # depth of the tension-steel centroid below the compression face (mm)
     solution: FlexureSolution
+    columns: SectionColumns  # the sections it was solved with, and its row there (for As,req)
+    row: int
 
 
 class SpanContext:
@@ -58,6 +61,8 @@ class SpanContext:
         self.understood: dict[str, str] = {}
         self.results: list[CheckResult] = []
         self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
+        # As,req by (sense, location, Mf): see checks.flexure.required_steel
+        self.required: dict[tuple[Sense, Location, float], float] = {}
         # placed bars by (arrangement, face, explicit depth); the arrangements are the input's
         # own, which this context keeps alive, so their ids are stable keys
         self._placed: dict[tuple[int, str, float | None], tuple[PlacedBars, ...]] = {}
@@ -131,10 +136,12 @@ class SpanContext:
         """The flexural solution at a location, or the reason there is none."""
         key = (sense, location)
         if key not in self._flexure:
-            self._flexure[key] = self._solve(sense, location)
+            solve_cases([(self, key)])
         return self._flexure[key]
 
-    def _solve(self, sense: Sense, location: Location) -> FlexureCase | str:
+    def _prepare(self, sense: Sense, location: Location) -> tuple | str:
+        """What the solver needs for a case (its bars as seen from the compression face), or
+        the reason there is no case."""
         inp = self.inp
         tension, compression, name = self.bars_for(sense, location)
         if tension is None:
@@ -151,10 +158,35 @@ class SpanContext:
             SolverBar(p.area, p.depth, p.db, f"{p.count}-{p.size} layer {p.layer} (compression)", tied, False)
             for p in c_placed
         )
-        sol = solve_flexure(
-            self.section.outline_from(comp_face), solver_bars, fc=inp.fc, fy=inp.fy,
-            phi_c=self.phi_c, phi_s=self.phi_s, Es=self.code.Es, alpha1=self.block.alpha1,
-            beta1=self.block.beta1, eps_cu=self.block.eps_cu,
-        )
-        d = inp.h - centroid_depth(t_placed)
-        return FlexureCase(sense, location, comp_face, tension, t_placed, compression, c_placed, tied, d, sol)
+        return comp_face, tension, t_placed, compression, c_placed, tied, self.section.outline_from(comp_face), solver_bars
+
+
+def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) -> None:
+    """Solve the flexural cases of many spans at once (one set of columns, one solve: see
+    :mod:`beamsched.solve.flexure`) and keep each in its span's context. A case already solved
+    is not solved again; one without tension bars keeps the reason."""
+    todo: list[tuple[SpanContext, tuple[Sense, Location], tuple]] = []
+    for ctx, key in wanted:
+        if key in ctx._flexure:
+            continue
+        prepared = ctx._prepare(*key)
+        if isinstance(prepared, str):
+            ctx._flexure[key] = prepared
+        else:
+            ctx._flexure[key] = "being solved"  # the same case asked for twice is solved once
+            todo.append((ctx, key, prepared))
+    if not todo:
+        return
+    columns = SectionColumns.stack(
+        [(p[6], p[7]) for _, _, p in todo],
+        fcd=[c.block.alpha1 * c.phi_c * c.inp.fc for c, _, _ in todo], fy=[c.inp.fy for c, _, _ in todo],
+        phi_s=[c.phi_s for c, _, _ in todo], Es=[c.code.Es for c, _, _ in todo],
+        beta1=[c.block.beta1 for c, _, _ in todo], eps_cu=[c.block.eps_cu for c, _, _ in todo],
+    )
+    solved = solve_columns(columns)
+    for i, (ctx, (sense, location), p) in enumerate(todo):
+        comp_face, tension, t_placed, compression, c_placed, tied, outline, bars = p
+        sol = solution_of(columns, solved, i, outline, bars, ctx.block.alpha1)
+        d = ctx.inp.h - centroid_depth(t_placed)
+        ctx._flexure[(sense, location)] = FlexureCase(
+            sense, location, comp_face, tension, t_placed, compression, c_placed, tied, d, sol, columns, i)

@@ -11,11 +11,13 @@ Where each is made:
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
+
+import numpy as np
 
 from ..model import CheckResult, CheckStatus, Location
-from ..solve.flexure import SolverBar, moment_resistance
-from ..solve.roots import bracketed_root
-from .context import NMM_PER_KNM, FlexureCase, Sense, SpanContext
+from ..solve.flexure import required_scale
+from .context import NMM_PER_KNM, FlexureCase, Sense, SpanContext, solve_cases
 
 SENSE_WORDS = {"pos": "sagging", "neg": "hogging"}
 MF_NAMES = {("pos", "mid"): "Mf+", ("pos", "left"): "Mf+ L", ("pos", "right"): "Mf+ R",
@@ -160,32 +162,44 @@ def _cd_limit(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase) 
 
 def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
     """As required for Mf: the tension steel, at the scheduled positions, scaled until Mr = Mf
-    (solved by bisection on the strain-compatibility solver, not by ratio)."""
+    (solved on the strain-compatibility solver, not by ratio). Worked out for all of a
+    schedule's sections at once by :func:`prepare`; a case it did not see is solved alone."""
+    key = (case.sense, case.location, mf)
+    held = ctx.required.get(key)
+    if held is None:
+        held = ctx.required[key] = _required([case], [mf])[0]
+    return held
 
-    sol = case.solution
-    if mf <= 0:
-        return 0.0
-    inp = ctx.inp
-    outline = ctx.section.outline_from(case.compression_face)
-    base = tuple(b.bar for b in sol.bars)
 
-    def mr(k: float) -> float:
-        bars = tuple(SolverBar(b.area * k, b.depth, b.db, b.label, b.counted, b.tension_steel) if b.tension_steel
-                     else b for b in base)
-        return moment_resistance(outline, bars, fc=inp.fc, fy=inp.fy, phi_c=ctx.phi_c, phi_s=ctx.phi_s,
-                                 Es=ctx.code.Es, alpha1=sol.alpha1, beta1=sol.beta1, eps_cu=sol.eps_cu)
+def _required(flex: Sequence[FlexureCase], mf: Sequence[float]) -> list[float]:
+    """As,req of each case for its Mf (mm²), all solved at once (the cases may come from
+    different solves)."""
+    out = [0.0] * len(flex)
+    by_columns: dict[int, list[int]] = {}
+    for i, case in enumerate(flex):
+        by_columns.setdefault(id(case.columns), []).append(i)
+    for members in by_columns.values():
+        columns = flex[members[0]].columns
+        rows = np.array([flex[i].row for i in members])
+        k = required_scale(columns.take(rows), [flex[i].solution.Mr for i in members], [mf[i] for i in members])
+        for i, ki in zip(members, k.tolist(), strict=True):
+            out[i] = 0.0 if mf[i] <= 0 else ki * flex[i].solution.As
+    return out
 
-    # k = 1 is the scheduled steel, whose Mr the case has already solved (the same arithmetic)
-    lo, hi, f_lo = 0.0, 1.0, -mf
-    f_hi = sol.Mr - mf
-    while f_hi < 0:
-        lo, f_lo = hi, f_hi
-        hi *= 2
-        if hi > 64:
-            return math.inf  # no amount of this steel reaches Mf: the concrete governs
-        f_hi = mr(hi) - mf
-    k = bracketed_root(lambda k: mr(k) - mf, lo, hi, f_lo, f_hi, tol_f=1e-7 * mf, tol_x=1e-9)
-    return k * sol.As
+
+def prepare(contexts: Sequence[SpanContext]) -> None:
+    """Solve every flexural section of these spans at once, and the steel each moment requires
+    (the checks then read them): one set of columns, whatever the number of spans."""
+    keys = [(ctx, key) for ctx in contexts for key in dict.fromkeys([*cases(ctx), ("pos", "mid")])]
+    solve_cases(keys)  # type: ignore[arg-type]
+    need: list[tuple[SpanContext, FlexureCase, float]] = []
+    for ctx, (sense, loc) in keys:
+        case = ctx.flexure(sense, loc)  # type: ignore[arg-type]
+        mf = demand(ctx, sense, loc)  # type: ignore[arg-type]
+        if isinstance(case, FlexureCase) and mf is not None:
+            need.append((ctx, case, mf))
+    for (ctx, case, mf), as_req in zip(need, _required([c for _, c, _ in need], [m for _, _, m in need]), strict=True):
+        ctx.required[(case.sense, case.location, mf)] = as_req
 
 
 def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase) -> None:

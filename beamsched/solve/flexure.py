@@ -1,11 +1,17 @@
 """Flexural resistance by strain compatibility with an equivalent rectangular stress block.
 
-One solver for every case. The caller describes the section as seen from its compression face
-(the outline as bands, the bars by depth below that face) with the factored material strengths;
-sagging and hogging differ only in which face is on top. The solver finds the neutral-axis depth
-c at which the forces balance, with the concrete crushing strain at the compression face, each
-bar at its own strain (stress capped at fy, never assumed to yield), and returns the resistance
-with every intermediate value the trace needs.
+One solver for every case, written over columns: row i of a :class:`SectionColumns` is one
+flexural section, so a whole schedule's sections are solved at once and one section is the same
+code on columns of length one (:func:`solve_flexure`, :func:`moment_resistance`). Each row is
+described as seen from its compression face (the outline as bands, the bars by depth below that
+face) with the factored material strengths; sagging and hogging differ only in which face is on
+top. The solver finds the neutral-axis depth c at which the forces balance, with the concrete
+crushing strain at the compression face, each bar at its own strain (stress capped at fy, never
+assumed to yield), and returns the resistance with every intermediate value the trace needs.
+
+Every row follows the same arithmetic, step for step, whatever else is in the columns: the root
+finders iterate each row until that row has converged, and rows do not interact. So a span's
+numbers are the same solved alone or with a building's other sections.
 
 Sign convention: forces in compression are positive; depths grow from the compression face.
 """
@@ -13,12 +19,21 @@ Sign convention: forces in compression are positive; depths grow from the compre
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
 
-from ..section import Rect
-from .roots import bracketed_root
+import numpy as np
 
-__all__ = ["SolverBar", "FlexureSolution", "BarState", "solve_flexure", "moment_resistance"]
+from ..section import Rect
+from .roots import bracketed_roots
+
+__all__ = [
+    "SolverBar", "FlexureSolution", "BarState", "SectionColumns", "solve_flexure", "moment_resistance",
+    "solve_columns", "resistance_columns", "required_scale", "TWO_PI",
+]
+
+TWO_PI = 2.0 * math.pi
+MAX_SCALE = 64.0  # the tension steel is scaled up to 64x in search of a moment before the concrete is said to govern
 
 
 @dataclass(frozen=True, slots=True)
@@ -71,101 +86,267 @@ class FlexureSolution:
         return self.c / self.d if self.d > 0 else math.inf
 
 
-def _block(outline: tuple[Rect, ...], a: float) -> tuple[float, float]:
-    """Area of the outline above depth a and its first moment about the compression face."""
-    area = moment = 0.0
-    for r in outline:
-        top, bottom = r.y0, min(r.y1, a)
-        if bottom <= top:
-            break
-        band = r.width * (bottom - top)
-        area += band
-        moment += band * (top + bottom) / 2
+@dataclass(frozen=True, slots=True)
+class SectionColumns:
+    """Flexural sections as columns, one row per section, seen from its compression face.
+
+    Bands (``y0``, ``y1``, ``width``: n x B) run down from the compression face; a section with
+    fewer bands than B is padded with empty bands at its depth h. Bars (n x L) are padded with
+    bars of no area, not counted and not tension steel. Strengths and factors are per row:
+    ``fcd`` = α1 φc f'c and ``fy`` (MPa), ``phi_s``, ``Es`` (MPa), ``beta1``, ``eps_cu``."""
+
+    y0: np.ndarray
+    y1: np.ndarray
+    width: np.ndarray
+    area: np.ndarray
+    depth: np.ndarray
+    db: np.ndarray
+    counted: np.ndarray  # bool
+    tension: np.ndarray  # bool
+    fcd: np.ndarray
+    fy: np.ndarray
+    phi_s: np.ndarray
+    Es: np.ndarray
+    beta1: np.ndarray
+    eps_cu: np.ndarray
+
+    @property
+    def n(self) -> int:
+        return len(self.fcd)
+
+    @property
+    def h(self) -> np.ndarray:
+        return self.y1.max(axis=1)
+
+    @property
+    def top(self) -> np.ndarray:
+        """Depth of each bar's top, where the block edge starts to reach it."""
+        return self.depth - self.db / 2
+
+    @staticmethod
+    def stack(sections: Sequence[tuple[tuple[Rect, ...], tuple[SolverBar, ...]]], fcd: Sequence[float],
+              fy: Sequence[float], phi_s: Sequence[float], Es: Sequence[float], beta1: Sequence[float],
+              eps_cu: Sequence[float]) -> SectionColumns:
+        """Columns of the sections given as (outline, bars), with per-section strengths."""
+        n = len(sections)
+        nb = max((len(o) for o, _ in sections), default=1)
+        nl = max((len(b) for _, b in sections), default=1) or 1
+        y0, y1, width = np.zeros((n, nb)), np.zeros((n, nb)), np.zeros((n, nb))
+        area, depth, db = np.zeros((n, nl)), np.zeros((n, nl)), np.zeros((n, nl))
+        counted, tension = np.zeros((n, nl), bool), np.zeros((n, nl), bool)
+        for i, (outline, bars) in enumerate(sections):
+            h = max(r.y1 for r in outline)
+            y0[i, :] = y1[i, :] = h
+            for j, r in enumerate(outline):
+                y0[i, j], y1[i, j], width[i, j] = r.y0, r.y1, r.width
+            for j, b in enumerate(bars):
+                area[i, j], depth[i, j], db[i, j] = b.area, b.depth, b.db
+                counted[i, j], tension[i, j] = b.counted, b.tension_steel
+        col = np.asarray
+        return SectionColumns(y0, y1, width, area, depth, db, counted, tension, col(fcd, float), col(fy, float),
+                              col(phi_s, float), col(Es, float), col(beta1, float), col(eps_cu, float))
+
+    def take(self, rows: np.ndarray) -> SectionColumns:
+        return SectionColumns(*(getattr(self, f)[rows] for f in self.__slots__))  # type: ignore[attr-defined]
+
+    def scaled(self, k: np.ndarray) -> SectionColumns:
+        """The same sections with each row's tension steel scaled by k (its compression steel as it is)."""
+        area = np.where(self.tension, self.area * k[:, None], self.area)
+        return SectionColumns(self.y0, self.y1, self.width, area, self.depth, self.db, self.counted, self.tension,
+                              self.fcd, self.fy, self.phi_s, self.Es, self.beta1, self.eps_cu)
+
+    def tension_area(self) -> np.ndarray:
+        """As, the area of the flexural tension steel (summed bar by bar, in order)."""
+        total = np.zeros(self.n)
+        for j in range(self.area.shape[1]):
+            total = total + np.where(self.tension[:, j], self.area[:, j], 0.0)
+        return total
+
+
+def _block(s: SectionColumns, a: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Area of each outline above depth a and its first moment about the compression face."""
+    area, moment = np.zeros(s.n), np.zeros(s.n)
+    for j in range(s.y0.shape[1]):
+        top, bottom = s.y0[:, j], np.minimum(s.y1[:, j], a)
+        band = np.where(bottom > top, s.width[:, j] * (bottom - top), 0.0)
+        area = area + band
+        moment = moment + band * (top + bottom) / 2
     return area, moment
 
 
-def _covered(top: float, db: float, depth: float, a: float) -> float:
-    """Fraction of a round bar's area lying above depth a (the circular segment), so that the
+def _covered(top: np.ndarray, db: np.ndarray, depth: np.ndarray, a: np.ndarray) -> np.ndarray:
+    """Fraction of each round bar's area lying above depth a (the circular segment), so that the
     concrete a bar displaces enters the balance smoothly as the block edge crosses it. ``top``
     is the depth of the bar's top (depth - db/2); a bar of no diameter counts whole or not at all."""
-    if db <= 0:
-        return 1.0 if depth < a else 0.0
-    t = (a - top) / db
-    if t <= 0.0:
-        return 0.0
-    if t >= 1.0:
-        return 1.0
-    theta = 2.0 * math.acos(1.0 - 2.0 * t)
-    return (theta - math.sin(theta)) / (2.0 * math.pi)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        t = (a - top) / db
+    theta = 2.0 * np.arccos(1.0 - 2.0 * np.clip(t, 0.0, 1.0))
+    segment = np.where(t <= 0.0, 0.0, np.where(t >= 1.0, 1.0, (theta - np.sin(theta)) / TWO_PI))
+    return np.where(db <= 0, np.where(depth < a, 1.0, 0.0), segment)
 
 
-def _overlap(bar: SolverBar, a: float) -> float:
-    return _covered(bar.depth - bar.db / 2, bar.db, bar.depth, a)
+def _imbalance(s: SectionColumns, c: np.ndarray) -> np.ndarray:
+    """Net compression (N) of each row at its neutral-axis depth c; increases with c."""
+    a = s.beta1 * c
+    area, _ = _block(s, a)
+    total = s.fcd * area
+    top = s.top
+    displaced = np.zeros(s.n)
+    for j in range(s.area.shape[1]):
+        area_j = s.area[:, j]
+        stress = s.Es * (s.eps_cu * (c - s.depth[:, j]) / c)
+        capped = np.where(stress > s.fy, s.fy, np.where(stress < -s.fy, -s.fy, stress))
+        total = total + np.where(s.counted[:, j], s.phi_s * area_j * capped, 0.0)
+        displaced = displaced + area_j * _covered(top[:, j], s.db[:, j], s.depth[:, j], a)
+    return total - s.fcd * np.where(displaced < area, displaced, area)
 
 
-def _displaced_scale(bars: tuple[SolverBar, ...], a: float, block_area: float) -> float:
-    """Factor (<= 1) on the concrete the bars displace, so that together they never displace
-    more concrete than the stress block holds. It is 1 for any section whose bars fit; only
-    bars scheduled in more area than the concrete around them (a failed bar-fit check) reach it."""
-    displaced = sum(b.area * _overlap(b, a) for b in bars)
-    return 1.0 if displaced <= block_area else block_area / displaced
+def neutral_axis(s: SectionColumns) -> np.ndarray:
+    """The neutral-axis depth c (mm) of each row at which its forces balance."""
+    h = s.h
+    As = s.tension_area()
+    subsets: dict[int, SectionColumns] = {}
 
+    def imbalance(c: np.ndarray, rows: np.ndarray) -> np.ndarray:
+        # the rows still searching shrink as they converge: keep the subset of the last call
+        key = len(rows)
+        sub = subsets.get(key)
+        if sub is None:
+            subsets.clear()
+            sub = subsets[key] = s.take(rows) if key < s.n else s
+        return _imbalance(sub, c)
 
-def _bar_force(b: SolverBar, c: float, a: float, k: float, fcd: float, fy: float, phi_s: float, Es: float,
-               eps_cu: float) -> tuple[float, float, float, float]:
-    """One bar at neutral-axis depth c: (strain, stress capped at fy and zero for an untied bar,
-    force phi_s As fs less the concrete it displaces, that displaced concrete scaled by k: see
-    _displaced_scale)."""
-    strain = eps_cu * (c - b.depth) / c
-    stress = max(-fy, min(fy, Es * strain)) if b.counted else 0.0
-    displaced = k * fcd * b.area * _overlap(b, a)
-    return strain, stress, phi_s * b.area * stress - displaced, displaced
-
-
-def _bar_state(b: SolverBar, c: float, a: float, k: float, fcd: float, fy: float, phi_s: float, Es: float,
-               eps_cu: float) -> BarState:
-    return BarState(b, *_bar_force(b, c, a, k, fcd, fy, phi_s, Es, eps_cu))
-
-
-def _neutral_axis(
-    outline: tuple[Rect, ...], bars: tuple[SolverBar, ...], fcd: float, fy: float, phi_s: float, Es: float,
-    beta1: float, eps_cu: float, fyd: float, As: float,
-) -> float:
-    """The neutral-axis depth c (mm) at which the forces balance (the one root-find of the solver)."""
-    h = max(r.y1 for r in outline)
-    bands = tuple((r.y0, r.y1, r.width) for r in outline)
-    # per bar: area, depth, top of the bar (where the block edge starts to reach it), diameter, counted
-    steel = tuple((b.area, b.depth, b.depth - b.db / 2, b.db, b.counted) for b in bars)
-
-    def imbalance(c: float) -> float:
-        """Net compression (N) at neutral-axis depth c; increases with c. (The solver's inner
-        loop: each bar's stress written out here, without the state a trace needs.)"""
-        a = beta1 * c
-        area = 0.0
-        for y0, y1, width in bands:  # _block's area
-            bottom = y1 if y1 < a else a
-            if bottom <= y0:
-                break
-            area += width * (bottom - y0)
-        total = fcd * area
-        displaced = 0.0
-        for area_i, depth, top, db, counted in steel:
-            if counted:
-                stress = Es * (eps_cu * (c - depth) / c)
-                total += phi_s * area_i * (fy if stress > fy else (-fy if stress < -fy else stress))
-            if a > top:
-                displaced += area_i * _covered(top, db, depth, a)
-        return total - fcd * (displaced if displaced < area else area)
-
-    lo, hi = 1e-9 * h, h
-    f_lo, f_hi = imbalance(lo), imbalance(hi)
-    while f_hi < 0:  # grows only for sections with more steel than concrete can balance
-        lo, f_lo = hi, f_hi
-        hi *= 2
-        if hi > 1e3 * h:
+    lo, hi = 1e-9 * h, h.copy()
+    f_lo, f_hi = _imbalance(s, lo), _imbalance(s, hi)
+    short = f_hi < 0  # grows only for sections with more steel than concrete can balance
+    while short.any():
+        lo, f_lo = np.where(short, hi, lo), np.where(short, f_hi, f_lo)
+        hi = np.where(short, hi * 2, hi)
+        if (hi > 1e3 * h).any():
             raise ArithmeticError("no neutral axis balances the forces")
-        f_hi = imbalance(hi)
-    return bracketed_root(imbalance, lo, hi, f_lo, f_hi, tol_f=1e-9 * fyd * As, tol_x=1e-12 * h)
+        idx = np.flatnonzero(short)
+        f_hi[idx] = _imbalance(s.take(idx), hi[idx])
+        short = f_hi < 0
+    return bracketed_roots(imbalance, lo, hi, f_lo, f_hi, tol_f=1e-9 * (s.phi_s * s.fy) * As, tol_x=1e-12 * h)
+
+
+@dataclass(frozen=True, slots=True)
+class SolvedColumns:
+    """Each row's solution: the neutral axis, the stress block and each bar's state."""
+
+    c: np.ndarray
+    a: np.ndarray
+    block_area: np.ndarray
+    first_moment: np.ndarray
+    Cc: np.ndarray
+    yc: np.ndarray
+    As: np.ndarray
+    strain: np.ndarray  # n x L
+    stress: np.ndarray
+    force: np.ndarray
+    displaced: np.ndarray
+    Mr: np.ndarray  # N·mm
+
+
+def _states(s: SectionColumns, c: np.ndarray, As: np.ndarray) -> SolvedColumns:
+    """Everything at neutral-axis depth c: the block, each bar's strain, stress and force."""
+    a = s.beta1 * c
+    area, first = _block(s, a)
+    Cc = s.fcd * area
+    with np.errstate(divide="ignore", invalid="ignore"):
+        yc = np.where(area > 0, first / area, 0.0)
+    overlap = _covered(s.top, s.db, s.depth, a[:, None])
+    # the bars never displace more concrete than the block holds: a factor k <= 1 on what they
+    # displace, 1 for any section whose bars fit (only bars over-filling the concrete reach it)
+    displaced_area = np.zeros(s.n)
+    for j in range(s.area.shape[1]):
+        displaced_area = displaced_area + s.area[:, j] * overlap[:, j]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        k = np.where(displaced_area <= area, 1.0, area / displaced_area)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        strain = s.eps_cu[:, None] * (c[:, None] - s.depth) / c[:, None]
+    fy = s.fy[:, None]
+    stress = np.where(s.counted, np.maximum(-fy, np.minimum(fy, s.Es[:, None] * strain)), 0.0)
+    displaced = k[:, None] * s.fcd[:, None] * s.area * overlap
+    force = s.phi_s[:, None] * s.area * stress - displaced
+    moment = np.zeros(s.n)
+    for j in range(s.area.shape[1]):
+        moment = moment + force[:, j] * s.depth[:, j]
+    # Never below zero: only a physically impossible layout (bars over-filling the concrete
+    # round them) could make the internal couple act the wrong way; it then resists nothing.
+    Mr = np.maximum(-(Cc * yc + moment), 0.0)
+    return SolvedColumns(c, a, area, first, Cc, yc, As, strain, stress, force, displaced, Mr)
+
+
+def solve_columns(s: SectionColumns) -> SolvedColumns:
+    """Every row solved: c where the forces balance, then the states and Mr there. A row with no
+    tension steel has no solution: its Mr and c are 0."""
+    As = s.tension_area()
+    some = As > 0
+    c = np.zeros(s.n)
+    if some.all():
+        c = neutral_axis(s)
+    elif some.any():
+        idx = np.flatnonzero(some)
+        c[idx] = neutral_axis(s.take(idx))
+    solved = _states(s, np.where(some, c, 1.0), As)
+    if some.all():
+        return solved
+    none = ~some
+    zero = {f: np.where(none if getattr(solved, f).ndim == 1 else none[:, None], 0.0, getattr(solved, f))
+            for f in SolvedColumns.__slots__ if f != "As"}  # type: ignore[attr-defined]
+    return SolvedColumns(As=As, **zero)
+
+
+def resistance_columns(s: SectionColumns) -> np.ndarray:
+    """Each row's factored resistance Mr (N·mm)."""
+    return solve_columns(s).Mr
+
+
+def required_scale(s: SectionColumns, Mr: np.ndarray, mf: np.ndarray) -> np.ndarray:
+    """For each row, the factor k on its tension steel (at the same positions) at which Mr = Mf,
+    found on the strain-compatibility solver (not by ratio); ``Mr`` is the row's resistance as
+    scheduled (k = 1). 0 where Mf <= 0; inf where no amount of this steel up to 64 times what is
+    scheduled reaches Mf (the concrete governs)."""
+    n = s.n
+    out = np.zeros(n)
+    mf = np.asarray(mf, float)
+    live = np.flatnonzero(mf > 0)
+    if not len(live):
+        return out
+    s, mf, Mr = s.take(live), mf[live], np.asarray(Mr, float)[live]
+    lo, hi, f_lo, f_hi = np.zeros(len(live)), np.ones(len(live)), -mf, Mr - mf
+    hopeless = np.zeros(len(live), bool)
+    short = f_hi < 0
+    while short.any():
+        lo, f_lo = np.where(short, hi, lo), np.where(short, f_hi, f_lo)
+        hi = np.where(short, hi * 2, hi)
+        hopeless |= short & (hi > MAX_SCALE)
+        short &= ~hopeless
+        idx = np.flatnonzero(short)
+        if len(idx):
+            f_hi[idx] = resistance_columns(s.take(idx).scaled(hi[idx])) - mf[idx]
+        short = f_hi < 0
+        short &= ~hopeless
+    search = np.flatnonzero(~hopeless)
+    k = np.full(len(live), math.inf)
+    if len(search):
+        sub, sub_mf = s.take(search), mf[search]
+
+        def gap(x: np.ndarray, rows: np.ndarray) -> np.ndarray:
+            return resistance_columns(sub.take(rows).scaled(x)) - sub_mf[rows]
+
+        k[search] = bracketed_roots(gap, lo[search], hi[search], f_lo[search], f_hi[search],
+                                    tol_f=1e-7 * sub_mf, tol_x=np.full(len(search), 1e-9))
+    out[live] = k
+    return out
+
+
+# -- one section: the same code on columns of length one ------------------------------------------
+
+def _one(outline: tuple[Rect, ...], bars: tuple[SolverBar, ...], fc: float, fy: float, phi_c: float,
+         phi_s: float, Es: float, alpha1: float, beta1: float, eps_cu: float) -> SectionColumns:
+    return SectionColumns.stack([(outline, bars)], [alpha1 * phi_c * fc], [fy], [phi_s], [Es], [beta1], [eps_cu])
 
 
 def moment_resistance(
@@ -181,22 +362,41 @@ def moment_resistance(
     beta1: float,
     eps_cu: float,
 ) -> float:
-    """The factored resistance Mr (N·mm) alone: :func:`solve_flexure`'s ``Mr``, the same
-    neutral axis and the same arithmetic, without building the states a trace needs (for
-    callers that solve many times, such as the steel required for a moment)."""
-    fcd = alpha1 * phi_c * fc
+    """The factored resistance Mr (N·mm) of one section: :func:`solve_flexure`'s ``Mr``."""
+    return float(resistance_columns(_one(outline, bars, fc, fy, phi_c, phi_s, Es, alpha1, beta1, eps_cu))[0])
+
+
+def solution_of(s: SectionColumns, solved: SolvedColumns, i: int, outline: tuple[Rect, ...],
+                bars: tuple[SolverBar, ...], alpha1: float) -> FlexureSolution:
+    """Row i of solved columns as one section's solution, with every value the trace shows."""
+    fcd, fy, phi_s = float(s.fcd[i]), float(s.fy[i]), float(s.phi_s[i])
+    beta1, eps_cu = float(s.beta1[i]), float(s.eps_cu[i])
     fyd = phi_s * fy
-    As = sum(b.area for b in bars if b.tension_steel)
+    As = float(solved.As[i])
+    tension = [b for b in bars if b.tension_steel]
+    d = sum(b.area * b.depth for b in tension) / As if As > 0 else 0.0
+    trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
     if As <= 0:
-        return 0.0
-    c = _neutral_axis(outline, bars, fcd, fy, phi_s, Es, beta1, eps_cu, fyd, As)
-    a = beta1 * c
-    area, first = _block(outline, a)
-    Cc = fcd * area
-    yc = first / area if area > 0 else 0.0
-    k = _displaced_scale(bars, a, area)
-    moment = sum(_bar_force(b, c, a, k, fcd, fy, phi_s, Es, eps_cu)[2] * b.depth for b in bars)
-    return max(-(Cc * yc + moment), 0.0)
+        return FlexureSolution(
+            0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, (), 0.0, True, True,
+            alpha1, beta1, eps_cu, fcd, fyd, 0.0, 0.0,
+        )
+    row = (solved.strain[i].tolist(), solved.stress[i].tolist(), solved.force[i].tolist(), solved.displaced[i].tolist())
+    st = tuple(BarState(b, row[0][j], row[1][j], row[2][j], row[3][j]) for j, b in enumerate(bars))
+    Cc, yc, a = float(solved.Cc[i]), float(solved.yc[i]), float(solved.a[i])
+    comp = [(b.force, b.bar.depth) for b in st if b.force > 0]
+    tens = [(-b.force, b.bar.depth) for b in st if b.force < 0]
+    C_total = Cc + sum(f for f, _ in comp)
+    y_C = (Cc * yc + sum(f * y for f, y in comp)) / C_total if C_total > 0 else 0.0
+    T = sum(f for f, _ in tens)
+    y_T = sum(f * y for f, y in tens) / T if T > 0 else 0.0
+    residual = Cc + sum(b.force for b in st)
+    return FlexureSolution(
+        Mr=float(solved.Mr[i]), c=float(solved.c[i]), a=a, d=d, Cc=Cc, yc=yc, block_area=float(solved.block_area[i]),
+        C_total=C_total, y_C=y_C, T=T, y_T=y_T, lever_arm=y_T - y_C, bars=st, trial_a=trial_a,
+        trial_in_first_band=trial_a <= outline[0].y1, block_in_first_band=a <= outline[0].y1,
+        alpha1=alpha1, beta1=beta1, eps_cu=eps_cu, fc_factored=fcd, fy_factored=fyd, As=As, residual=residual,
+    )
 
 
 def solve_flexure(
@@ -212,43 +412,6 @@ def solve_flexure(
     beta1: float,
     eps_cu: float,
 ) -> FlexureSolution:
-    """Find c such that the forces balance, and the factored resistance Mr (N·mm)."""
-    fcd = alpha1 * phi_c * fc  # stress-block intensity
-    fyd = phi_s * fy
-    tension = [b for b in bars if b.tension_steel]
-    As = sum(b.area for b in tension)
-    d = sum(b.area * b.depth for b in tension) / As if As > 0 else 0.0
-
-    def states(c: float) -> tuple[float, float, float, list[BarState]]:
-        a = beta1 * c
-        area, first = _block(outline, a)
-        k = _displaced_scale(bars, a, area)
-        return a, area, first, [_bar_state(b, c, a, k, fcd, fy, phi_s, Es, eps_cu) for b in bars]
-
-    trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
-    if As <= 0:
-        return FlexureSolution(
-            0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, (), 0.0, True, True,
-            alpha1, beta1, eps_cu, fcd, fyd, 0.0, 0.0,
-        )
-    c = _neutral_axis(outline, bars, fcd, fy, phi_s, Es, beta1, eps_cu, fyd, As)
-    a, area, first, st = states(c)
-    Cc = fcd * area
-    yc = first / area if area > 0 else 0.0
-    comp = [(s.force, s.bar.depth) for s in st if s.force > 0]
-    tens = [(-s.force, s.bar.depth) for s in st if s.force < 0]
-    C_total = Cc + sum(f for f, _ in comp)
-    y_C = (Cc * yc + sum(f * y for f, y in comp)) / C_total if C_total > 0 else 0.0
-    T = sum(f for f, _ in tens)
-    y_T = sum(f * y for f, y in tens) / T if T > 0 else 0.0
-    # Never below zero: only a physically impossible layout (bars over-filling the concrete
-    # round them) could make the internal couple act the wrong way; it then resists nothing.
-    Mr = max(-(Cc * yc + sum(s.force * s.bar.depth for s in st)), 0.0)
-    residual = Cc + sum(s.force for s in st)
-    return FlexureSolution(
-        Mr=Mr, c=c, a=a, d=d, Cc=Cc, yc=yc, block_area=area, C_total=C_total, y_C=y_C, T=T,
-        y_T=y_T, lever_arm=y_T - y_C, bars=tuple(st), trial_a=trial_a,
-        trial_in_first_band=trial_a <= outline[0].y1, block_in_first_band=a <= outline[0].y1,
-        alpha1=alpha1, beta1=beta1, eps_cu=eps_cu, fc_factored=fcd, fy_factored=fyd, As=As,
-        residual=residual,
-    )
+    """Find c such that the forces of one section balance, and its factored resistance Mr (N·mm)."""
+    s = _one(outline, bars, fc, fy, phi_c, phi_s, Es, alpha1, beta1, eps_cu)
+    return solution_of(s, solve_columns(s), 0, outline, bars, alpha1)
