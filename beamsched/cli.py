@@ -358,7 +358,8 @@ def make_plan(schedule: str, output: str | None, json: str | None, csv: str | No
 
 
 def check_rows(schedule, progress: Progress):
-    """Check every row in schedule order through the engine, one row at a time for the progress bar."""
+    """Check every row in schedule order through the engine (a chunk of spans at a time: the
+    progress bar moves after each chunk)."""
     from .codes import get_code
     from .engine import check_schedule
 
@@ -366,11 +367,7 @@ def check_rows(schedule, progress: Progress):
         code = get_code(schedule.code)
     except KeyError as exc:
         raise UsageError(str(exc).strip("'\"")) from exc
-    results = []
-    for i, row in enumerate(schedule.rows, start=1):
-        results.extend(check_schedule(replace(schedule, rows=(row,)), code))
-        progress.update(i)
-    return results
+    return check_schedule(schedule, code, progress=progress.update)
 
 
 def run(plan: Plan, out: TextIO | None = None, err: TextIO | None = None, demo: bool = False) -> Outcome:

@@ -3,8 +3,11 @@
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 
-from .checks import CHECK_MODULES
+import numpy as np
+
+from .checks import CHECK_MODULES, flexure
 from .checks.context import SpanContext
 from .codes import DesignCode, get_code
 from .model import (
@@ -162,15 +165,17 @@ CHUNK_SPANS = 512  # spans checked together: their sections solved in one set of
 
 
 class SpansToTrace:
-    """The spans of one chunk of a schedule whose traces have not been worked out: the first
-    trace read works out the traces of the whole chunk at once (the same check, with the trace
-    kept), and the chunk's traces are then kept until others are read."""
+    """The spans of one chunk of a schedule, whose traces have not been worked out, with what
+    the checks found by searching (each flexural neutral axis and As,req): a trace worked out
+    again for one span starts from those roots, so it shows the numbers the checks found
+    without searching again (a search over columns of one row costs tens of milliseconds)."""
 
-    __slots__ = ("inputs", "code", "__weakref__")
+    __slots__ = ("inputs", "code", "roots")
 
     def __init__(self, inputs: list[BeamInput], code: DesignCode):
         self.inputs = inputs
         self.code = code
+        self.roots = np.full((len(inputs), 2 * len(flexure.CASE_KEYS)), np.nan)  # see flexure.found_roots
 
 
 class LazyTrace(WorkedOutTuple):
@@ -179,15 +184,15 @@ class LazyTrace(WorkedOutTuple):
     A whole schedule's trace is some 200 lines a span: held as objects, 100,000 spans would
     take gigabytes, and the results workbook shows the working of only the spans that fit on
     one worksheet. So :func:`check_schedule` keeps, for each span, only what makes its trace
-    (the input, the design code and the spans checked with it) and this sequence runs the checks
-    of those spans again, with the trace, when a writer reads one. The lines are the same as an
-    eager run's: the checks are pure functions of the input and the code, and a span's numbers
-    do not depend on the spans solved with it (``tests/test_fast_path.py`` compares them).
-    The traces last worked out are kept, so reading a chunk's traces in order costs one run.
+    (the input, the design code and the roots its checks found, see :class:`SpansToTrace`) and
+    this sequence runs the checks again, with the trace, when a writer reads it. The lines are
+    the same as an eager run's: the checks are pure functions of the input and the code, and a
+    span's numbers do not depend on the spans solved with it (``tests/test_fast_path.py``
+    compares them). The last few traces read are kept, so reading one twice costs one run.
     """
 
     __slots__ = ("_chunk", "_index")
-    KEEP = 2 * CHUNK_SPANS  # traces kept after reading (a writer reads a span's trace a few times in a row)
+    KEEP = 32  # traces kept after reading (a writer reads a span's trace a few times in a row)
     _recent = RecentlyRead(KEEP)
 
     def __init__(self, chunk: SpansToTrace, index: int):
@@ -196,15 +201,14 @@ class LazyTrace(WorkedOutTuple):
 
     def lines(self) -> tuple[TraceLine, ...]:
         """The trace, worked out again (or as last worked out)."""
-        key = (id(self._chunk), self._index)
-        held = LazyTrace._recent.get(key)
+        held = LazyTrace._recent.get(id(self))
         if held is not None:
             return held
-        chunk = self._chunk
-        traces = [r.trace for r in _check_spans(chunk.inputs, chunk.code, tracing=True)]
-        for i, trace in enumerate(traces):
-            LazyTrace._recent.put((id(chunk), i), trace, chunk)
-        return traces[self._index]  # type: ignore[return-value]
+        chunk, i = self._chunk, self._index
+        inp = chunk.inputs[i]
+        roots = flexure.given_roots(inp, chunk.roots[i].tolist())
+        trace = _check_spans([inp], chunk.code, tracing=True, roots=[roots])[0].trace
+        return LazyTrace._recent.put(id(self), trace, self)  # type: ignore[arg-type]
 
     items = lines
 
@@ -213,11 +217,13 @@ class LazyTrace(WorkedOutTuple):
         return f"LazyTrace({inp.mark!r}, span {inp.span_no})"
 
 
-def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool) -> list[BeamResult]:
+def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool,
+                 roots: list[dict] | None = None) -> list[BeamResult]:
     """Check spans together: each check module first works out what it can for all of them at
     once (``prepare``: the flexural sections are solved in one set of columns), then makes each
     span's results (``run``). Without ``tracing`` the results are packed and each trace is a
-    :class:`LazyTrace`."""
+    :class:`LazyTrace`. ``roots``: per span, what an earlier run's searches found (see
+    :class:`SpansToTrace`)."""
     out: list[BeamResult | None] = [None] * len(inputs)
     contexts: list[tuple[int, SpanContext]] = []
     for i, inp in enumerate(inputs):
@@ -226,7 +232,7 @@ def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool) -> li
             out[i] = BeamResult(inp.mark, inp.span_no, inp.row, BeamStatus.ERROR,
                                 problems=tuple(problems) + inp.warnings, assumed=inp.assumed, input=inp)
             continue
-        ctx = SpanContext(inp, code, tracing=tracing)
+        ctx = SpanContext(inp, code, tracing=tracing, roots=None if roots is None else roots[i])
         _understood(ctx)
         contexts.append((i, ctx))
     spans = [ctx for _, ctx in contexts]
@@ -240,6 +246,8 @@ def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool) -> li
             module.run(ctx)
         checks = tuple(ctx.results)
         inp = ctx.inp
+        if chunk is not None:
+            chunk.roots[i] = flexure.found_roots(ctx)
         out[i] = BeamResult(
             inp.mark, inp.span_no, inp.row, beam_status(checks),
             checks=checks if tracing else PackedChecks(checks), values=dict(ctx.values),
@@ -263,25 +271,30 @@ def check_beam(inp: BeamInput, code: DesignCode | str | None = None, *, lazy_tra
 
 
 def check_schedule(schedule: Schedule, code: DesignCode | str | None = None, *,
-                   lazy_trace: bool = True) -> list[BeamResult]:
+                   lazy_trace: bool = True, progress: Callable[[int], object] | None = None) -> list[BeamResult]:
     """Check every row of a schedule, in schedule order; unreadable rows come back as
     ``error`` results carrying their problems, so nothing is lost.
 
     The spans are checked in chunks of :data:`CHUNK_SPANS` (see :func:`_check_spans`). Each
     result's trace is worked out when it is read (``lazy_trace``, see :class:`LazyTrace`);
-    ``lazy_trace=False`` keeps every trace line from the start."""
+    ``lazy_trace=False`` keeps every trace line from the start. ``progress`` is called with the
+    number of rows checked so far, after each chunk."""
     code = code if isinstance(code, DesignCode) else get_code(code or schedule.code)
     out: list[BeamResult] = []
     pending: list[BeamInput] = []
 
     def flush() -> None:
         nonlocal pending
-        out.extend(_check_spans(pending, code, tracing=not lazy_trace))
-        pending = []  # a new list: the chunk's traces keep theirs
+        if pending:
+            out.extend(_check_spans(pending, code, tracing=not lazy_trace))
+            pending = []  # a new list: the chunk's traces keep theirs
+        if progress is not None:
+            progress(len(out))
 
     for row in schedule.rows:
         if isinstance(row, RowFailure):
-            flush()
+            if pending:
+                flush()
             out.append(BeamResult(row.mark, row.span_no, row.row, BeamStatus.ERROR, problems=row.problems))
         else:
             pending.append(row)

@@ -12,6 +12,8 @@ from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Literal
 
+import numpy as np
+
 from ..bars import BarArrangement
 from ..codes import DesignCode, FlangeWidth
 from ..model import BeamInput, CheckResult, Location, TraceLine
@@ -49,8 +51,12 @@ class SpanContext:
     :class:`beamsched.engine.LazyTrace`). The checks make the same numbers either way: trace
     lines are only ever written, never read back by a check."""
 
-    def __init__(self, inp: BeamInput, code: DesignCode, tracing: bool = True):
+    def __init__(self, inp: BeamInput, code: DesignCode, tracing: bool = True,
+                 roots: dict[tuple, float] | None = None):
         self.inp = inp
+        # what an earlier run of the same checks found by searching ({(sense, location): c} and
+        # {(sense, location, Mf): As,req}): a trace worked out again starts from them
+        self.roots = roots or {}
         self.code = code
         self.tracing = tracing
         self.phi_c = code.phi_c(inp.precast)
@@ -183,7 +189,9 @@ def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) ->
         phi_s=[c.phi_s for c, _, _ in todo], Es=[c.code.Es for c, _, _ in todo],
         beta1=[c.block.beta1 for c, _, _ in todo], eps_cu=[c.block.eps_cu for c, _, _ in todo],
     )
-    solved = solve_columns(columns)
+    known = [ctx.roots.get(key) for ctx, key, _ in todo]
+    solved = solve_columns(columns, None if not any(v is not None for v in known) else
+                           np.array([np.nan if v is None else v for v in known]))
     for i, (ctx, (sense, location), p) in enumerate(todo):
         comp_face, tension, t_placed, compression, c_placed, tied, outline, bars = p
         sol = solution_of(columns, solved, i, outline, bars, ctx.block.alpha1)

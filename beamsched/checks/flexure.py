@@ -15,7 +15,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..model import CheckResult, CheckStatus, Location
+from ..model import BeamInput, CheckResult, CheckStatus, Location
 from ..solve.flexure import required_scale
 from .context import NMM_PER_KNM, FlexureCase, Sense, SpanContext, solve_cases
 
@@ -29,7 +29,10 @@ WHERE = {"mid": "at midspan", "left": "at the left support", "right": "at the ri
 
 
 def demand(ctx: SpanContext, sense: Sense, location: Location) -> float | None:
-    inp = ctx.inp
+    return demand_of(ctx.inp, sense, location)
+
+
+def demand_of(inp: BeamInput, sense: Sense, location: Location) -> float | None:
     return {
         ("pos", "mid"): inp.Mf_pos,
         ("pos", "left"): inp.Mf_pos_left,
@@ -167,7 +170,8 @@ def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
     key = (case.sense, case.location, mf)
     held = ctx.required.get(key)
     if held is None:
-        held = ctx.required[key] = _required([case], [mf])[0]
+        held = ctx.roots.get(key)
+        held = ctx.required[key] = _required([case], [mf])[0] if held is None else held
     return held
 
 
@@ -196,7 +200,7 @@ def prepare(contexts: Sequence[SpanContext]) -> None:
     for ctx, (sense, loc) in keys:
         case = ctx.flexure(sense, loc)  # type: ignore[arg-type]
         mf = demand(ctx, sense, loc)  # type: ignore[arg-type]
-        if isinstance(case, FlexureCase) and mf is not None:
+        if isinstance(case, FlexureCase) and mf is not None and (sense, loc, mf) not in ctx.roots:
             need.append((ctx, case, mf))
     for (ctx, case, mf), as_req in zip(need, _required([c for _, c, _ in need], [m for _, _, m in need]), strict=True):
         ctx.required[(case.sense, case.location, mf)] = as_req
@@ -235,6 +239,37 @@ def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase)
                         f"{clause}, {exempt_clause}", CheckStatus.PASS if ok else CheckStatus.FAIL,
                         msg or note.strip(" ()"), demand=need, capacity=as_prov, unit="mm²",
                         utilisation=need / as_prov if as_prov > 0 else math.inf))
+
+
+CASE_KEYS: tuple[tuple[Sense, Location], ...] = (("pos", "mid"), ("neg", "left"), ("neg", "right"),
+                                                 ("pos", "left"), ("pos", "right"))
+
+
+def found_roots(ctx: SpanContext) -> list[float]:
+    """What the searches found for a span, in a fixed order (NaN where none): the neutral-axis
+    depth of each case of :data:`CASE_KEYS`, then the As,req of each. A trace worked out again
+    starts from them (:func:`given_roots`) and so shows the numbers the checks found."""
+    out = [math.nan] * (2 * len(CASE_KEYS))
+    for j, key in enumerate(CASE_KEYS):
+        case = ctx._flexure.get(key)
+        if isinstance(case, FlexureCase):
+            out[j] = case.solution.c
+    for (sense, loc, _), value in ctx.required.items():
+        out[len(CASE_KEYS) + CASE_KEYS.index((sense, loc))] = value
+    return out
+
+
+def given_roots(inp: BeamInput, found: Sequence[float]) -> dict[tuple, float]:
+    """:func:`found_roots` as :class:`SpanContext` takes them."""
+    out: dict[tuple, float] = {}
+    for j, key in enumerate(CASE_KEYS):
+        c, as_req = found[j], found[len(CASE_KEYS) + j]
+        if not math.isnan(c):
+            out[key] = c
+        mf = demand_of(inp, *key)
+        if not math.isnan(as_req) and mf is not None:
+            out[(*key, mf)] = as_req
+    return out
 
 
 def run(ctx: SpanContext) -> None:

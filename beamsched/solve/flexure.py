@@ -278,16 +278,19 @@ def _states(s: SectionColumns, c: np.ndarray, As: np.ndarray) -> SolvedColumns:
     return SolvedColumns(c, a, area, first, Cc, yc, As, strain, stress, force, displaced, Mr)
 
 
-def solve_columns(s: SectionColumns) -> SolvedColumns:
+def solve_columns(s: SectionColumns, known_c: np.ndarray | None = None) -> SolvedColumns:
     """Every row solved: c where the forces balance, then the states and Mr there. A row with no
-    tension steel has no solution: its Mr and c are 0."""
+    tension steel has no solution: its Mr and c are 0. ``known_c``: where finite, the neutral
+    axis this solver found for the row before (a trace worked out again is made at the root
+    the checks found, without searching for it again)."""
     As = s.tension_area()
     some = As > 0
-    c = np.zeros(s.n)
-    if some.all():
+    search = some if known_c is None else some & ~np.isfinite(known_c)
+    c = np.zeros(s.n) if known_c is None else np.where(np.isfinite(known_c), known_c, 0.0)
+    if search.all():
         c = neutral_axis(s)
-    elif some.any():
-        idx = np.flatnonzero(some)
+    elif search.any():
+        idx = np.flatnonzero(search)
         c[idx] = neutral_axis(s.take(idx))
     solved = _states(s, np.where(some, c, 1.0), As)
     if some.all():
