@@ -132,3 +132,20 @@ def test_packed_checks_give_back_every_field_and_type():
     assert packed[-1].utilisation == math.inf and packed[-1].required is False
     assert packed[1:3] == made[1:3]
     assert packed + made[:1] == made + made[:1] and made[:1] + packed == made[:1] + made
+
+
+def test_a_schedule_is_checked_in_chunks_with_the_same_results(both, monkeypatch):
+    # the chunk size is a matter of speed only: checked 7 spans at a time, every result is the
+    # same, and progress is reported after each chunk up to the number of rows
+    schedule, fast, _ = both
+    import beamsched.engine as engine
+
+    monkeypatch.setattr(engine, "CHUNK_SPANS", 7)
+    seen: list[int] = []
+    small = check_schedule(schedule, progress=seen.append)
+    assert seen == sorted(seen) and seen[-1] == len(schedule.rows) and len(seen) > len(schedule.rows) // 7
+    for got, ref in zip(small, fast, strict=True):
+        assert got.status is ref.status and len(got.checks) == len(ref.checks)
+        for a, b in zip(got.checks, ref.checks, strict=True):
+            assert all(same(getattr(a, f.name), getattr(b, f.name)) for f in fields(CheckResult)), a.id
+        assert tuple(got.trace) == tuple(ref.trace)
