@@ -10,6 +10,7 @@ import numpy as np
 from .checks import CHECK_MODULES, flexure
 from .checks.context import SpanContext
 from .codes import DesignCode, get_code
+from .collector import gc_paused
 from .model import (
     BeamInput,
     BeamResult,
@@ -170,12 +171,13 @@ class SpansToTrace:
     again for one span starts from those roots, so it shows the numbers the checks found
     without searching again (a search over columns of one row costs tens of milliseconds)."""
 
-    __slots__ = ("inputs", "code", "roots")
+    __slots__ = ("inputs", "code", "roots", "last_read")
 
     def __init__(self, inputs: list[BeamInput], code: DesignCode):
         self.inputs = inputs
         self.code = code
         self.roots = np.full((len(inputs), 2 * len(flexure.CASE_KEYS)), np.nan)  # see flexure.found_roots
+        self.last_read = -2  # the index of the span whose trace was last worked out
 
 
 class LazyTrace(WorkedOutTuple):
@@ -192,7 +194,8 @@ class LazyTrace(WorkedOutTuple):
     """
 
     __slots__ = ("_chunk", "_index")
-    KEEP = 32  # traces kept after reading (a writer reads a span's trace a few times in a row)
+    WINDOW = 32  # spans whose traces are worked out together when traces are read in order
+    KEEP = 2 * WINDOW  # traces kept after reading (a writer reads a span's trace a few times in a row)
     _recent = RecentlyRead(KEEP)
 
     def __init__(self, chunk: SpansToTrace, index: int):
@@ -202,13 +205,23 @@ class LazyTrace(WorkedOutTuple):
     def lines(self) -> tuple[TraceLine, ...]:
         """The trace, worked out again (or as last worked out)."""
         held = LazyTrace._recent.get(id(self))
+        if held is None:
+            held = LazyTrace._recent.get((id(self._chunk), self._index))
         if held is not None:
+            self._chunk.last_read = self._index
             return held
         chunk, i = self._chunk, self._index
-        inp = chunk.inputs[i]
-        roots = flexure.given_roots(inp, chunk.roots[i].tolist())
-        trace = _check_spans([inp], chunk.code, tracing=True, roots=[roots])[0].trace
-        return LazyTrace._recent.put(id(self), trace, self)  # type: ignore[arg-type]
+        # Read in order (the Working sheet with every span), the traces of the next spans are
+        # worked out with this one: the columns' fixed cost is shared. Read here and there
+        # (only the flagged spans), each is worked out alone. The lines are the same either way.
+        end = min(i + (LazyTrace.WINDOW if i == chunk.last_read + 1 else 1), len(chunk.inputs))
+        inputs = chunk.inputs[i:end]
+        roots = [flexure.given_roots(inp, chunk.roots[j].tolist()) for j, inp in enumerate(inputs, start=i)]
+        results = _check_spans(inputs, chunk.code, tracing=True, roots=roots)
+        for j, result in enumerate(results[1:], start=i + 1):
+            LazyTrace._recent.put((id(chunk), j), result.trace, chunk)
+        chunk.last_read = end - 1
+        return LazyTrace._recent.put(id(self), results[0].trace, self)  # type: ignore[arg-type]
 
     items = lines
 
@@ -280,6 +293,12 @@ def check_schedule(schedule: Schedule, code: DesignCode | str | None = None, *,
     ``lazy_trace=False`` keeps every trace line from the start. ``progress`` is called with the
     number of rows checked so far, after each chunk."""
     code = code if isinstance(code, DesignCode) else get_code(code or schedule.code)
+    with gc_paused():  # see gc_paused: many live objects and no cycles
+        return _check_rows(schedule, code, lazy_trace, progress)
+
+
+def _check_rows(schedule: Schedule, code: DesignCode, lazy_trace: bool,
+                progress: Callable[[int], object] | None) -> list[BeamResult]:
     out: list[BeamResult] = []
     pending: list[BeamInput] = []
 

@@ -29,11 +29,11 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from openpyxl.cell.cell import ERROR_CODES
 
+from beamsched.collector import gc_paused
 from beamsched.schedule import cells
 from beamsched.schedule.cells import (
     EMPTY,
     Cell,
-    gc_paused,
     read_workbook,
     read_workbook_calamine,
     read_workbook_openpyxl,

@@ -13,14 +13,12 @@ from __future__ import annotations
 
 import csv
 import datetime as _dt
-import gc
 import io
 import itertools
 import posixpath
 import re
 import zipfile
-from collections.abc import Iterable, Iterator
-from contextlib import contextmanager
+from collections.abc import Iterable
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -78,25 +76,6 @@ class Grid:
             if texts:
                 return texts[:limit]
         return []
-
-
-@contextmanager
-def gc_paused() -> Iterator[None]:
-    """Pause Python's cyclic garbage collector while a schedule is read.
-
-    Reading allocates millions of small objects that all stay alive (cells, then spans) and no
-    reference cycles; every full collection walks all of them, and their number grows with the
-    schedule, so the collector made reading superlinear (measured: 11 of 51 CPU seconds for
-    100,000 spans). Reference counting still frees everything; the collector is switched back
-    on afterwards only if it was on before.
-    """
-    was_on = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        if was_on:
-            gc.enable()
 
 
 def _is_formula(v: object) -> str | None:

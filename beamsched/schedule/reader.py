@@ -16,8 +16,9 @@ import hashlib
 from pathlib import Path
 
 from ..codes import DEFAULT_CODE, get_code
+from ..collector import gc_paused
 from ..model import BeamInput, Problem, RowFailure, Schedule
-from .cells import Grid, ScheduleError, gc_paused, read_csv, read_workbook
+from .cells import Grid, ScheduleError, read_csv, read_workbook
 from .columns import BY_KEY, COLUMNS, join_subheader, norm
 from .parameters import PARAMETERS_SHEET_NAMES, Defaults, read_parameters
 from .rows import (
