@@ -2,10 +2,9 @@
 
 One solver for every case, written over columns: row i of a :class:`SectionColumns` is one
 flexural section, so a whole schedule's sections are solved at once and one section is the same
-code on columns of length one (:func:`solve_flexure`, :func:`moment_resistance`). Each row is
-described as seen from its compression face (the outline as bands, the bars by depth below that
-face) with the factored material strengths; sagging and hogging differ only in which face is on
-top. The solver finds the neutral-axis depth c at which the forces balance, with the concrete
+code on columns of length one. Each row is described as seen from its compression face (the
+outline as bands, the bars by depth below that face) with the factored material strengths;
+sagging and hogging differ only in which face is on top. The solver finds the neutral-axis depth c at which the forces balance, with the concrete
 crushing strain at the compression face, each bar at its own strain (stress capped at fy, never
 assumed to yield), and returns the resistance with every intermediate value the trace needs.
 
@@ -28,8 +27,8 @@ from ..section import Rect
 from .roots import bracketed_roots
 
 __all__ = [
-    "SolverBar", "FlexureSolution", "BarState", "SectionColumns", "solve_flexure", "moment_resistance",
-    "solve_columns", "resistance_columns", "required_scale", "TWO_PI",
+    "SolverBar", "FlexureSolution", "BarState", "SectionColumns", "SolvedColumns", "solve_columns",
+    "resistance_columns", "required_scale", "solution_of",
 ]
 
 TWO_PI = 2.0 * math.pi
@@ -345,30 +344,6 @@ def required_scale(s: SectionColumns, Mr: np.ndarray, mf: np.ndarray) -> np.ndar
     return out
 
 
-# -- one section: the same code on columns of length one ------------------------------------------
-
-def _one(outline: tuple[Rect, ...], bars: tuple[SolverBar, ...], fc: float, fy: float, phi_c: float,
-         phi_s: float, Es: float, alpha1: float, beta1: float, eps_cu: float) -> SectionColumns:
-    return SectionColumns.stack([(outline, bars)], [alpha1 * phi_c * fc], [fy], [phi_s], [Es], [beta1], [eps_cu])
-
-
-def moment_resistance(
-    outline: tuple[Rect, ...],
-    bars: tuple[SolverBar, ...],
-    *,
-    fc: float,
-    fy: float,
-    phi_c: float,
-    phi_s: float,
-    Es: float,
-    alpha1: float,
-    beta1: float,
-    eps_cu: float,
-) -> float:
-    """The factored resistance Mr (N·mm) of one section: :func:`solve_flexure`'s ``Mr``."""
-    return float(resistance_columns(_one(outline, bars, fc, fy, phi_c, phi_s, Es, alpha1, beta1, eps_cu))[0])
-
-
 def solution_of(s: SectionColumns, solved: SolvedColumns, i: int, outline: tuple[Rect, ...],
                 bars: tuple[SolverBar, ...], alpha1: float) -> FlexureSolution:
     """Row i of solved columns as one section's solution, with every value the trace shows."""
@@ -401,20 +376,3 @@ def solution_of(s: SectionColumns, solved: SolvedColumns, i: int, outline: tuple
         alpha1=alpha1, beta1=beta1, eps_cu=eps_cu, fc_factored=fcd, fy_factored=fyd, As=As, residual=residual,
     )
 
-
-def solve_flexure(
-    outline: tuple[Rect, ...],
-    bars: tuple[SolverBar, ...],
-    *,
-    fc: float,
-    fy: float,
-    phi_c: float,
-    phi_s: float,
-    Es: float,
-    alpha1: float,
-    beta1: float,
-    eps_cu: float,
-) -> FlexureSolution:
-    """Find c such that the forces of one section balance, and its factored resistance Mr (N·mm)."""
-    s = _one(outline, bars, fc, fy, phi_c, phi_s, Es, alpha1, beta1, eps_cu)
-    return solution_of(s, solve_columns(s), 0, outline, bars, alpha1)
