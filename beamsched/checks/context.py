@@ -7,9 +7,10 @@ flexural tension steel) without recomputing or reformatting anything.
 
 from __future__ import annotations
 
+import math
 import sys
 from collections.abc import Iterable
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Literal
 
 import numpy as np
@@ -17,8 +18,16 @@ import numpy as np
 from ..bars import BarArrangement
 from ..codes import DesignCode, FlangeWidth
 from ..model import BeamInput, CheckResult, Location, TraceLine
-from ..section import PlacedBars, Section, centroid_depth, place_bars
-from ..solve.flexure import FlexureSolution, SectionColumns, SolverBar, solution_of, solve_columns
+from ..section import PlacedBars, Rect, Section, centroid_depth, place_bars
+from ..solve.flexure import (
+    FlexureSolution,
+    SectionColumns,
+    SolvedColumns,
+    SolverBar,
+    solution_of,
+    solve_columns,
+    tension_centroid,
+)
 
 Sense = Literal["pos", "neg"]
 End = Literal["left", "right"]
@@ -29,7 +38,11 @@ NMM_PER_KNM = 1e6
 
 @dataclass(frozen=True, slots=True)
 class FlexureCase:
-    """One flexural section: which bars are in tension and compression, and its solution."""
+    """One flexural section: which bars are in tension and compression, and its solution.
+
+    The checks read ``Mr``, ``As``, ``c`` and ``c_over_d``; the whole :attr:`solution` (every
+    bar's state, the forces and where they act) is made from the solved columns only when first
+    read, by the trace."""
 
     sense: Sense
     location: Location
@@ -40,9 +53,24 @@ class FlexureCase:
     compression_placed: tuple[PlacedBars, ...]  # depths below the compression face
     compression_tied: bool
     d: float  # depth of the tension-steel centroid below the compression face (mm)
-    solution: FlexureSolution
+    Mr: float  # N·mm, factored resistance
+    As: float  # area of the flexural tension steel (mm²)
+    c: float  # neutral-axis depth (mm)
+    c_over_d: float  # c over the solver's d (the tension steel's centroid, as solved)
     columns: SectionColumns  # the sections it was solved with, and its row there (for As,req)
+    solved: SolvedColumns
     row: int
+    outline: tuple[Rect, ...]
+    bars: tuple[SolverBar, ...]
+    alpha1: float
+    _solution: list = field(default_factory=list, repr=False, compare=False)
+
+    @property
+    def solution(self) -> FlexureSolution:
+        if not self._solution:
+            self._solution.append(solution_of(self.columns, self.solved, self.row, self.outline, self.bars,
+                                              self.alpha1))
+        return self._solution[0]
 
 
 class SpanContext:
@@ -192,9 +220,11 @@ def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) ->
     known = [ctx.roots.get(key) for ctx, key, _ in todo]
     solved = solve_columns(columns, None if not any(v is not None for v in known) else
                            np.array([np.nan if v is None else v for v in known]))
+    mr, area, depth = solved.Mr.tolist(), solved.As.tolist(), solved.c.tolist()
     for i, (ctx, (sense, location), p) in enumerate(todo):
         comp_face, tension, t_placed, compression, c_placed, tied, outline, bars = p
-        sol = solution_of(columns, solved, i, outline, bars, ctx.block.alpha1)
-        d = ctx.inp.h - centroid_depth(t_placed)
+        d_solved = tension_centroid(bars, area[i])
         ctx._flexure[(sense, location)] = FlexureCase(
-            sense, location, comp_face, tension, t_placed, compression, c_placed, tied, d, sol, columns, i)
+            sense, location, comp_face, tension, t_placed, compression, c_placed, tied,
+            ctx.inp.h - centroid_depth(t_placed), mr[i], area[i], depth[i],
+            depth[i] / d_solved if d_solved > 0 else math.inf, columns, solved, i, outline, bars, ctx.block.alpha1)

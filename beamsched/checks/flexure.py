@@ -129,7 +129,7 @@ def _flexure(ctx: SpanContext, sense: Sense, loc: Location) -> FlexureCase | Non
                             demand=None if mf is None else mf / NMM_PER_KNM, unit="kN·m"))
         return None
     _trace_case(ctx, cid, case)
-    mr = case.solution.Mr / NMM_PER_KNM
+    mr = case.Mr / NMM_PER_KNM
     ctx.values[VALUE_KEYS[(sense, loc)]] = mr
     if mf is None:
         ctx.add(CheckResult(cid, label, loc, clause, CheckStatus.NOT_CHECKED,
@@ -151,7 +151,7 @@ def _flexure(ctx: SpanContext, sense: Sense, loc: Location) -> FlexureCase | Non
 def _cd_limit(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase) -> None:
     clause = ctx.code.clauses["cd_limit"]
     limit = ctx.code.cd_limit(ctx.inp.fy)
-    cd = case.solution.c_over_d
+    cd = case.c_over_d
     ok = cd <= limit
     ctx.add_trace(f"cd_limit_{sense}", loc, "(c/d)max", limit, "", clause, "700 / (700 + fy)")
     msg = "" if ok else (
@@ -185,9 +185,9 @@ def _required(flex: Sequence[FlexureCase], mf: Sequence[float]) -> list[float]:
     for members in by_columns.values():
         columns = flex[members[0]].columns
         rows = np.array([flex[i].row for i in members])
-        k = required_scale(columns.take(rows), [flex[i].solution.Mr for i in members], [mf[i] for i in members])
+        k = required_scale(columns.take(rows), [flex[i].Mr for i in members], [mf[i] for i in members])
         for i, ki in zip(members, k.tolist(), strict=True):
-            out[i] = 0.0 if mf[i] <= 0 else ki * flex[i].solution.As
+            out[i] = 0.0 if mf[i] <= 0 else ki * flex[i].As
     return out
 
 
@@ -213,7 +213,7 @@ def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase)
     bf = ctx.section.bf if ctx.section.flanged else inp.bw
     bt = code.min_steel_tension_width(inp.shape, inp.bw, bf or inp.bw, flange_in_tension=(sense == "neg"))
     as_min = code.min_tension_steel(inp.fc, inp.fy, bt, inp.h)
-    as_prov = case.solution.As
+    as_prov = case.As
     t = ctx.add_trace
     t(cid, loc, "bt", bt, "mm", clause, "width of the tension zone" + (
         " (flange in tension, capped at 2.5 bw for T, 1.5 bw for L)" if sense == "neg" and inp.shape != "rect" else ""))
@@ -253,7 +253,7 @@ def found_roots(ctx: SpanContext) -> list[float]:
     for j, key in enumerate(CASE_KEYS):
         case = ctx._flexure.get(key)
         if isinstance(case, FlexureCase):
-            out[j] = case.solution.c
+            out[j] = case.c
     for (sense, loc, _), value in ctx.required.items():
         out[len(CASE_KEYS) + CASE_KEYS.index((sense, loc))] = value
     return out

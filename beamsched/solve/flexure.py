@@ -28,7 +28,7 @@ from .roots import bracketed_roots
 
 __all__ = [
     "SolverBar", "FlexureSolution", "BarState", "SectionColumns", "SolvedColumns", "solve_columns",
-    "resistance_columns", "required_scale", "solution_of",
+    "resistance_columns", "required_scale", "solution_of", "tension_centroid",
 ]
 
 TWO_PI = 2.0 * math.pi
@@ -127,20 +127,20 @@ class SectionColumns:
               fy: Sequence[float], phi_s: Sequence[float], Es: Sequence[float], beta1: Sequence[float],
               eps_cu: Sequence[float]) -> SectionColumns:
         """Columns of the sections given as (outline, bars), with per-section strengths."""
-        n = len(sections)
         nb = max((len(o) for o, _ in sections), default=1)
         nl = max((len(b) for _, b in sections), default=1) or 1
-        y0, y1, width = np.zeros((n, nb)), np.zeros((n, nb)), np.zeros((n, nb))
-        area, depth, db = np.zeros((n, nl)), np.zeros((n, nl)), np.zeros((n, nl))
-        counted, tension = np.zeros((n, nl), bool), np.zeros((n, nl), bool)
-        for i, (outline, bars) in enumerate(sections):
+        bands: list[list[tuple[float, float, float]]] = []
+        steel: list[list[tuple[float, float, float, bool, bool]]] = []
+        for outline, bars in sections:
             h = max(r.y1 for r in outline)
-            y0[i, :] = y1[i, :] = h
-            for j, r in enumerate(outline):
-                y0[i, j], y1[i, j], width[i, j] = r.y0, r.y1, r.width
-            for j, b in enumerate(bars):
-                area[i, j], depth[i, j], db[i, j] = b.area, b.depth, b.db
-                counted[i, j], tension[i, j] = b.counted, b.tension_steel
+            bands.append([(r.y0, r.y1, r.width) for r in outline] + [(h, h, 0.0)] * (nb - len(outline)))
+            steel.append([(b.area, b.depth, b.db, b.counted, b.tension_steel) for b in bars]
+                         + [(0.0, 0.0, 0.0, False, False)] * (nl - len(bars)))
+        b = np.array(bands, float).reshape(len(sections), nb, 3)
+        st = np.array(steel, float).reshape(len(sections), nl, 5)
+        y0, y1, width = b[:, :, 0].copy(), b[:, :, 1].copy(), b[:, :, 2].copy()
+        area, depth, db = st[:, :, 0].copy(), st[:, :, 1].copy(), st[:, :, 2].copy()
+        counted, tension = st[:, :, 3] != 0, st[:, :, 4] != 0
         col = np.asarray
         return SectionColumns(y0, y1, width, area, depth, db, counted, tension, col(fcd, float), col(fy, float),
                               col(phi_s, float), col(Es, float), col(beta1, float), col(eps_cu, float))
@@ -344,6 +344,12 @@ def required_scale(s: SectionColumns, Mr: np.ndarray, mf: np.ndarray) -> np.ndar
     return out
 
 
+def tension_centroid(bars: tuple[SolverBar, ...], As: float) -> float:
+    """d: the depth of the centroid of the flexural tension steel below the compression face
+    (0 without tension steel)."""
+    return sum(b.area * b.depth for b in bars if b.tension_steel) / As if As > 0 else 0.0
+
+
 def solution_of(s: SectionColumns, solved: SolvedColumns, i: int, outline: tuple[Rect, ...],
                 bars: tuple[SolverBar, ...], alpha1: float) -> FlexureSolution:
     """Row i of solved columns as one section's solution, with every value the trace shows."""
@@ -351,8 +357,7 @@ def solution_of(s: SectionColumns, solved: SolvedColumns, i: int, outline: tuple
     beta1, eps_cu = float(s.beta1[i]), float(s.eps_cu[i])
     fyd = phi_s * fy
     As = float(solved.As[i])
-    tension = [b for b in bars if b.tension_steel]
-    d = sum(b.area * b.depth for b in tension) / As if As > 0 else 0.0
+    d = tension_centroid(bars, As)
     trial_a = fyd * As / (fcd * outline[0].width) if As > 0 else 0.0
     if As <= 0:
         return FlexureSolution(
