@@ -1,4 +1,6 @@
-"""Check one span: validate the input, run every check, gather a :class:`BeamResult`."""
+"""Check spans: validate each input, run every check, gather a :class:`BeamResult` per span.
+
+A schedule is checked a chunk of spans at a time (:func:`_check_spans`); one span is a chunk of one."""
 
 from __future__ import annotations
 
