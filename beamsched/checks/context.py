@@ -200,14 +200,15 @@ def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) ->
     :mod:`beamsched.solve.flexure`) and keep each in its span's context. A case already solved
     is not solved again; one without tension bars keeps the reason."""
     todo: list[tuple[SpanContext, tuple[Sense, Location], tuple]] = []
+    asked: set[tuple[int, tuple[Sense, Location]]] = set()  # the same case asked for twice is solved once
     for ctx, key in wanted:
-        if key in ctx._flexure:
+        if key in ctx._flexure or (id(ctx), key) in asked:
             continue
+        asked.add((id(ctx), key))
         prepared = ctx._prepare(*key)
         if isinstance(prepared, str):
             ctx._flexure[key] = prepared
         else:
-            ctx._flexure[key] = "being solved"  # the same case asked for twice is solved once
             todo.append((ctx, key, prepared))
     if not todo:
         return

@@ -4,9 +4,10 @@ One solver for every case, written over columns: row i of a :class:`SectionColum
 flexural section, so a whole schedule's sections are solved at once and one section is the same
 code on columns of length one. Each row is described as seen from its compression face (the
 outline as bands, the bars by depth below that face) with the factored material strengths;
-sagging and hogging differ only in which face is on top. The solver finds the neutral-axis depth c at which the forces balance, with the concrete
-crushing strain at the compression face, each bar at its own strain (stress capped at fy, never
-assumed to yield), and returns the resistance with every intermediate value the trace needs.
+sagging and hogging differ only in which face is on top. The solver finds the neutral-axis
+depth c at which the forces balance, with the concrete crushing strain at the compression face,
+each bar at its own strain (stress capped at fy, never assumed to yield), and returns the
+resistance with every intermediate value the trace needs.
 
 Every row follows the same arithmetic, step for step, whatever else is in the columns: the root
 finders iterate each row until that row has converged, and rows do not interact. So a span's
@@ -18,7 +19,7 @@ Sign convention: forces in compression are positive; depths grow from the compre
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -200,20 +201,30 @@ def _imbalance(s: SectionColumns, c: np.ndarray) -> np.ndarray:
     return total - s.fcd * np.where(displaced < area, displaced, area)
 
 
+def _searching(s: SectionColumns) -> Callable[[np.ndarray], SectionColumns]:
+    """The rows of s still searching, for a root finder's ``fn(x, rows)``: the rows only shrink
+    as they converge, so the subset taken last is kept until fewer rows remain."""
+    held: dict[int, SectionColumns] = {}
+
+    def rows_of(rows: np.ndarray) -> SectionColumns:
+        key = len(rows)
+        sub = held.get(key)
+        if sub is None:
+            held.clear()
+            sub = held[key] = s.take(rows) if key < s.n else s
+        return sub
+
+    return rows_of
+
+
 def neutral_axis(s: SectionColumns) -> np.ndarray:
     """The neutral-axis depth c (mm) of each row at which its forces balance."""
     h = s.h
     As = s.tension_area()
-    subsets: dict[int, SectionColumns] = {}
+    rows_of = _searching(s)
 
     def imbalance(c: np.ndarray, rows: np.ndarray) -> np.ndarray:
-        # the rows still searching shrink as they converge: keep the subset of the last call
-        key = len(rows)
-        sub = subsets.get(key)
-        if sub is None:
-            subsets.clear()
-            sub = subsets[key] = s.take(rows) if key < s.n else s
-        return _imbalance(sub, c)
+        return _imbalance(rows_of(rows), c)
 
     lo, hi = 1e-9 * h, h.copy()
     f_lo, f_hi = _imbalance(s, lo), _imbalance(s, hi)
@@ -265,6 +276,7 @@ def _states(s: SectionColumns, c: np.ndarray, As: np.ndarray) -> SolvedColumns:
     with np.errstate(divide="ignore", invalid="ignore"):
         strain = s.eps_cu[:, None] * (c[:, None] - s.depth) / c[:, None]
     fy = s.fy[:, None]
+    # stress capped at fy; an untied compression bar (not counted) carries none
     stress = np.where(s.counted, np.maximum(-fy, np.minimum(fy, s.Es[:, None] * strain)), 0.0)
     displaced = k[:, None] * s.fcd[:, None] * s.area * overlap
     force = s.phi_s[:, None] * s.area * stress - displaced
@@ -328,15 +340,15 @@ def required_scale(s: SectionColumns, Mr: np.ndarray, mf: np.ndarray) -> np.ndar
         idx = np.flatnonzero(short)
         if len(idx):
             f_hi[idx] = resistance_columns(s.take(idx).scaled(hi[idx])) - mf[idx]
-        short = f_hi < 0
-        short &= ~hopeless
+        short = (f_hi < 0) & ~hopeless
     search = np.flatnonzero(~hopeless)
     k = np.full(len(live), math.inf)
     if len(search):
-        sub, sub_mf = s.take(search), mf[search]
+        sub_mf = mf[search]
+        rows_of = _searching(s.take(search))
 
         def gap(x: np.ndarray, rows: np.ndarray) -> np.ndarray:
-            return resistance_columns(sub.take(rows).scaled(x)) - sub_mf[rows]
+            return resistance_columns(rows_of(rows).scaled(x)) - sub_mf[rows]
 
         k[search] = bracketed_roots(gap, lo[search], hi[search], f_lo[search], f_hi[search],
                                     tol_f=1e-7 * sub_mf, tol_x=np.full(len(search), 1e-9))
