@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 __all__ = [
     "Bar",
@@ -88,50 +88,51 @@ class BarGroup:
 
 @dataclass(frozen=True, slots=True)
 class BarLayer:
-    """The bars of one layer; they rest side by side on the same line at the face."""
+    """The bars of one layer; they rest side by side on the same line at the face.
+
+    ``area``, ``count``, ``max_db`` and the notation are worked out once, when the layer is
+    made (every check of every span reads them; the reader shares one layer between rows)."""
 
     groups: tuple[BarGroup, ...]
+    area: float = field(init=False, repr=False, compare=False)
+    count: int = field(init=False, repr=False, compare=False)
+    max_db: float = field(init=False, repr=False, compare=False)
+    _text: str = field(init=False, repr=False, compare=False)
 
-    @property
-    def area(self) -> float:
-        return sum(g.area for g in self.groups)
-
-    @property
-    def count(self) -> int:
-        return sum(g.count for g in self.groups)
-
-    @property
-    def max_db(self) -> float:
-        return max(g.bar.db for g in self.groups)
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "area", sum(g.area for g in self.groups))
+        object.__setattr__(self, "count", sum(g.count for g in self.groups))
+        object.__setattr__(self, "max_db", max(g.bar.db for g in self.groups))
+        object.__setattr__(self, "_text", " + ".join(str(g) for g in self.groups))
 
     def __str__(self) -> str:
-        return " + ".join(str(g) for g in self.groups)
+        return self._text
 
 
 @dataclass(frozen=True, slots=True)
 class BarArrangement:
-    """Bars at one face, layer by layer; ``layers[0]`` is nearest the face."""
+    """Bars at one face, layer by layer; ``layers[0]`` is nearest the face.
+
+    ``area``, ``count``, ``max_db``, ``largest_bar`` and the notation are worked out once, when
+    the arrangement is made."""
 
     layers: tuple[BarLayer, ...]
+    area: float = field(init=False, repr=False, compare=False)
+    count: int = field(init=False, repr=False, compare=False)
+    max_db: float = field(init=False, repr=False, compare=False)
+    largest_bar: Bar = field(init=False, repr=False, compare=False)
+    _text: str = field(init=False, repr=False, compare=False)
 
-    @property
-    def area(self) -> float:
-        return sum(layer.area for layer in self.layers)
-
-    @property
-    def count(self) -> int:
-        return sum(layer.count for layer in self.layers)
-
-    @property
-    def max_db(self) -> float:
-        return max(layer.max_db for layer in self.layers)
-
-    @property
-    def largest_bar(self) -> Bar:
-        return max((g.bar for layer in self.layers for g in layer.groups), key=lambda b: b.db)
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "area", sum(layer.area for layer in self.layers))
+        object.__setattr__(self, "count", sum(layer.count for layer in self.layers))
+        object.__setattr__(self, "max_db", max(layer.max_db for layer in self.layers))
+        object.__setattr__(self, "largest_bar",
+                           max((g.bar for layer in self.layers for g in layer.groups), key=lambda b: b.db))
+        object.__setattr__(self, "_text", " / ".join(str(layer) for layer in self.layers))
 
     def __str__(self) -> str:
-        return " / ".join(str(layer) for layer in self.layers)
+        return self._text
 
 
 @dataclass(frozen=True, slots=True)

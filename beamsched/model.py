@@ -245,24 +245,20 @@ class PackedChecks(WorkedOutTuple):
     _recent = RecentlyRead(KEEP)
 
     def __init__(self, checks: Sequence[CheckResult]):
-        kinds = tuple((c.id, c.label, c.location, c.clause, c.unit, c.required) for c in checks)
+        kinds = tuple([(c.id, c.label, c.location, c.clause, c.unit, c.required) for c in checks])
         self._kinds = PackedChecks._kind_lists.setdefault(kinds, kinds)
-        self._status = bytes(_STATUS_CODES[c.status] for c in checks)
-        self._messages = tuple(c.message for c in checks)
-        numbers = array("d")
+        self._status = bytes([_STATUS_CODES[c.status] for c in checks])
+        self._messages = tuple([c.message for c in checks])
+        values = [v for c in checks for v in (c.demand, c.capacity, c.utilisation)]
         absent = ints = 0
-        bit = 1
-        for c in checks:
-            for v in (c.demand, c.capacity, c.utilisation):
+        for k, v in enumerate(values):  # bit k of each mask: value k is None / an int
+            if type(v) is not float:
                 if v is None:
-                    absent |= bit
-                    numbers.append(0.0)
-                else:
-                    if type(v) is int:
-                        ints |= bit
-                    numbers.append(v)
-                bit <<= 1
-        self._numbers, self._absent, self._ints = numbers, absent, ints
+                    absent |= 1 << k
+                    values[k] = 0.0
+                elif type(v) is int:
+                    ints |= 1 << k
+        self._numbers, self._absent, self._ints = array("d", values), absent, ints
 
     def _value(self, k: int) -> float | int | None:
         bit = 1 << k
