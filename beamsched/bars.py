@@ -98,12 +98,20 @@ class BarLayer:
     count: int = field(init=False, repr=False, compare=False)
     max_db: float = field(init=False, repr=False, compare=False)
     _text: str = field(init=False, repr=False, compare=False)
+    _hash: int = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
+        object.__setattr__(self, "_hash", hash(self.groups))
         object.__setattr__(self, "area", sum(g.area for g in self.groups))
         object.__setattr__(self, "count", sum(g.count for g in self.groups))
         object.__setattr__(self, "max_db", max(g.bar.db for g in self.groups))
         object.__setattr__(self, "_text", " + ".join(str(g) for g in self.groups))
+
+    def __hash__(self) -> int:  # equal objects hash alike: _hash is the hash of the compared field
+        return self._hash
+
+    def __reduce__(self):  # made again when unpickled: a text's hash differs between processes
+        return (BarLayer, (self.groups,))
 
     def __str__(self) -> str:
         return self._text
@@ -122,14 +130,22 @@ class BarArrangement:
     max_db: float = field(init=False, repr=False, compare=False)
     largest_bar: Bar = field(init=False, repr=False, compare=False)
     _text: str = field(init=False, repr=False, compare=False)
+    _hash: int = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
+        object.__setattr__(self, "_hash", hash(self.layers))
         object.__setattr__(self, "area", sum(layer.area for layer in self.layers))
         object.__setattr__(self, "count", sum(layer.count for layer in self.layers))
         object.__setattr__(self, "max_db", max(layer.max_db for layer in self.layers))
         object.__setattr__(self, "largest_bar",
                            max((g.bar for layer in self.layers for g in layer.groups), key=lambda b: b.db))
         object.__setattr__(self, "_text", " / ".join(str(layer) for layer in self.layers))
+
+    def __hash__(self) -> int:  # equal objects hash alike: _hash is the hash of the compared field
+        return self._hash
+
+    def __reduce__(self):  # made again when unpickled (see BarLayer)
+        return (BarArrangement, (self.layers,))
 
     def __str__(self) -> str:
         return self._text

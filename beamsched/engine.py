@@ -10,7 +10,7 @@ from collections.abc import Callable
 import numpy as np
 
 from .checks import CHECK_MODULES, flexure
-from .checks.context import SpanContext
+from .checks.context import SpanContext, placement
 from .codes import DesignCode, get_code
 from .collector import gc_paused
 from .model import (
@@ -26,7 +26,6 @@ from .model import (
     WorkedOutTuple,
     beam_status,
 )
-from .section import place_bars
 
 # Not a limit of the standard: the smallest web width or depth read as millimetres. Joist ribs
 # are at least 100 mm wide (common practice), so anything under 50 mm is a unit slip (metres or
@@ -111,24 +110,19 @@ def _bars_inside(inp: BeamInput, code: DesignCode, bad) -> None:
     """Every bar must lie within the section, placed as the checks place it (cover, stirrup,
     layers): bars that cannot even be placed inside h give no meaningful resistance. (Bars too
     many for the width are a failed bar-fit check, not an input error.)"""
-    stirrup_db = inp.stirrups.bar.db if inp.stirrups else 0.0
     numbers = (inp.h, inp.cover_top, inp.cover_bottom, inp.agg)
     if not all(isinstance(v, (int, float)) and math.isfinite(v) for v in numbers):
         return  # a value it needs is itself in error (reported elsewhere)
-
-    def clear(db_below: float, db_above: float) -> float:
-        return inp.layer_clear if inp.layer_clear is not None else code.bar_clear_spacing(max(db_below, db_above), inp.agg)
-
     for name, (label, face) in BAR_FIELDS.items():
         bars = getattr(inp, name)
         if bars is None:
             continue
-        cover = inp.cover_top if face == "top" else inp.cover_bottom
-        deepest = max(p.depth + p.db / 2 for p in place_bars(bars, cover, stirrup_db, clear))
+        deepest = max(p.depth + p.db / 2 for p in placement(inp, code, bars, face))
         if deepest > inp.h:
+            cover = inp.cover_top if face == "top" else inp.cover_bottom
             FIELD_LABELS.setdefault(name, label)
             bad(name, str(bars), f"bars that fit within h = {inp.h:g} mm: placed from the {face} face with "
-                                 f"{cover:g} mm cover{' and the stirrups' if stirrup_db else ''}, they reach "
+                                 f"{cover:g} mm cover{' and the stirrups' if inp.stirrups else ''}, they reach "
                                  f"{deepest:.0f} mm deep")
 
 

@@ -73,6 +73,33 @@ class FlexureCase:
         return self._solution[0]
 
 
+_PLACEMENTS: dict[tuple, tuple[PlacedBars, ...]] = {}
+PLACEMENTS_KEPT = 4096  # distinct placements remembered (a building repeats a few hundred)
+
+
+def placement(inp: BeamInput, code: DesignCode, bars: BarArrangement, face: Literal["top", "bottom"],
+              explicit: float | None = None) -> tuple[PlacedBars, ...]:
+    """A span's bars placed below a face (:func:`~beamsched.section.place_bars`, with the span's
+    cover, stirrups and layer spacing; ``explicit``: a scheduled depth below the face).
+
+    The placement depends only on those values, and a schedule repeats the same bars, covers and
+    stirrups from span to span: each distinct placement is worked out once and remembered."""
+    cover = inp.cover_top if face == "top" else inp.cover_bottom
+    stirrup_db = inp.stirrups.bar.db if inp.stirrups else 0.0
+    key = (bars, cover, stirrup_db, inp.layer_clear, inp.agg, explicit, code)
+    placed = _PLACEMENTS.get(key)
+    if placed is None:
+        def clear(db_below: float, db_above: float) -> float:
+            if inp.layer_clear is not None:
+                return inp.layer_clear
+            return code.bar_clear_spacing(max(db_below, db_above), inp.agg)
+
+        if len(_PLACEMENTS) >= PLACEMENTS_KEPT:
+            _PLACEMENTS.clear()
+        placed = _PLACEMENTS[key] = place_bars(bars, cover, stirrup_db, clear, explicit)
+    return placed
+
+
 class SpanContext:
     """``tracing=False`` runs every check without keeping its calculation trace (a whole
     schedule keeps only results; the trace is worked out again when a writer reads it, see
@@ -97,9 +124,6 @@ class SpanContext:
         self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
         # As,req by (sense, location, Mf): see checks.flexure.required_steel
         self.required: dict[tuple[Sense, Location, float], float] = {}
-        # placed bars by (arrangement, face, explicit depth); the arrangements are the input's
-        # own, which this context keeps alive, so their ids are stable keys
-        self._placed: dict[tuple[int, str, float | None], tuple[PlacedBars, ...]] = {}
         self.flange: FlangeWidth | None = None
         bf = None
         if inp.shape in ("T", "L") and inp.hf is not None:
@@ -121,24 +145,14 @@ class SpanContext:
     def stirrup_db(self) -> float:
         return self.inp.stirrups.bar.db if self.inp.stirrups else 0.0
 
-    def layer_clear(self, db_below: float, db_above: float) -> float:
-        if self.inp.layer_clear is not None:
-            return self.inp.layer_clear
-        return self.code.bar_clear_spacing(max(db_below, db_above), self.inp.agg)
-
     def place(self, bars: BarArrangement, face: Literal["top", "bottom"], tension: bool) -> tuple[PlacedBars, ...]:
         """Bars at a face, depths below that face; an explicit d applies to tension bars."""
         inp = self.inp
-        cover = inp.cover_top if face == "top" else inp.cover_bottom
         explicit = None
         if tension:
             d = inp.d_bottom if face == "bottom" else inp.d_top
             explicit = None if d is None else inp.h - d
-        key = (id(bars), face, explicit)
-        placed = self._placed.get(key)
-        if placed is None:  # the same bars are placed by several checks; the result is the same
-            placed = self._placed[key] = place_bars(bars, cover, self.stirrup_db, self.layer_clear, explicit)
-        return placed
+        return placement(inp, self.code, bars, face, explicit)
 
     def add_trace(self, check: str, location: Location, symbol: str, value, unit: str, clause: str, description: str) -> None:
         if self.tracing:
