@@ -199,14 +199,34 @@ class SpanContext:
         t_placed = self.place(tension, tens_face, tension=True)
         c_placed = self.place(compression, comp_face, tension=False) if compression else ()
         tied = inp.stirrups is not None
-        solver_bars = tuple(
-            SolverBar(p.area, inp.h - p.depth, p.db, f"{p.count}-{p.size} layer {p.layer}", True, True)
-            for p in t_placed
-        ) + tuple(
-            SolverBar(p.area, p.depth, p.db, f"{p.count}-{p.size} layer {p.layer} (compression)", tied, False)
-            for p in c_placed
-        )
-        return comp_face, tension, t_placed, compression, c_placed, tied, self.section.outline_from(comp_face), solver_bars
+        return (comp_face, tension, t_placed, compression, c_placed, tied, self.section.outline_from(comp_face),
+                solver_bars(t_placed, c_placed, inp.h, tied))
+
+
+_SOLVER_BARS: dict[tuple, tuple] = {}
+
+
+def solver_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float,
+                tied: bool) -> tuple[SolverBar, ...]:
+    """The bars of a flexural case as the solver sees them, by depth below the compression face:
+    the tension bars (placed below the tension face, in a section h deep) and the compression
+    bars (counted only when ``tied``). Placements are shared (:func:`placement`), so each
+    distinct case is made once; an entry holds its placements, so their ids stay theirs."""
+    key = (id(t_placed), id(c_placed), h, tied)
+    held = _SOLVER_BARS.get(key)
+    if held is not None:
+        return held[2]
+    bars = tuple(
+        SolverBar(p.area, h - p.depth, p.db, f"{p.count}-{p.size} layer {p.layer}", True, True)
+        for p in t_placed
+    ) + tuple(
+        SolverBar(p.area, p.depth, p.db, f"{p.count}-{p.size} layer {p.layer} (compression)", tied, False)
+        for p in c_placed
+    )
+    if len(_SOLVER_BARS) >= PLACEMENTS_KEPT:
+        _SOLVER_BARS.clear()
+    _SOLVER_BARS[key] = (t_placed, c_placed, bars)
+    return bars
 
 
 def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) -> None:

@@ -32,14 +32,13 @@ def demand(ctx: SpanContext, sense: Sense, location: Location) -> float | None:
     return demand_of(ctx.inp, sense, location)
 
 
+DEMAND_FIELDS = {("pos", "mid"): "Mf_pos", ("pos", "left"): "Mf_pos_left", ("pos", "right"): "Mf_pos_right",
+                 ("neg", "left"): "Mf_neg_left", ("neg", "right"): "Mf_neg_right"}
+
+
 def demand_of(inp: BeamInput, sense: Sense, location: Location) -> float | None:
-    return {
-        ("pos", "mid"): inp.Mf_pos,
-        ("pos", "left"): inp.Mf_pos_left,
-        ("pos", "right"): inp.Mf_pos_right,
-        ("neg", "left"): inp.Mf_neg_left,
-        ("neg", "right"): inp.Mf_neg_right,
-    }[(sense, location)]
+    """The scheduled factored moment of a case (N·mm; hogging as a magnitude), None if blank."""
+    return getattr(inp, DEMAND_FIELDS[(sense, location)])
 
 
 def cases(ctx: SpanContext) -> list[tuple[Sense, Location]]:
@@ -215,17 +214,21 @@ def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase)
     as_min = code.min_tension_steel(inp.fc, inp.fy, bt, inp.h)
     as_prov = case.As
     t = ctx.add_trace
-    t(cid, loc, "bt", bt, "mm", clause, "width of the tension zone" + (
-        " (flange in tension, capped at 2.5 bw for T, 1.5 bw for L)" if sense == "neg" and inp.shape != "rect" else ""))
-    t(cid, loc, "As,min", as_min, "mm²", clause, "0.2 √f'c bt h / fy")
-    t(cid, loc, "As", as_prov, "mm²", "", "tension steel provided")
+    if ctx.tracing:
+        t(cid, loc, "bt", bt, "mm", clause, "width of the tension zone" + (
+            " (flange in tension, capped at 2.5 bw for T, 1.5 bw for L)" if sense == "neg" and inp.shape != "rect" else ""))
+        t(cid, loc, "As,min", as_min, "mm²", clause, "0.2 √f'c bt h / fy")
+        t(cid, loc, "As", as_prov, "mm²", "", "tension steel provided")
     mf = demand(ctx, sense, loc)
     need = as_min
     note = ""
     if mf is not None:
         as_req = required_steel(ctx, case, mf)
-        t(cid, loc, "As,req", as_req, "mm²", exempt_clause, "tension steel needed for Mf (solved by strain compatibility)")
-        t(cid, loc, "4/3 As,req", code.min_steel_exemption * as_req, "mm²", exempt_clause, "minimum waived when As ≥ 4/3 As,req")
+        if ctx.tracing:
+            t(cid, loc, "As,req", as_req, "mm²", exempt_clause,
+              "tension steel needed for Mf (solved by strain compatibility)")
+            t(cid, loc, "4/3 As,req", code.min_steel_exemption * as_req, "mm²", exempt_clause,
+              "minimum waived when As ≥ 4/3 As,req")
         if code.min_steel_exemption * as_req < as_min:
             need = code.min_steel_exemption * as_req
             if as_prov >= need:
