@@ -44,9 +44,32 @@ def _layer_fit(ctx: SpanContext, code: DetailingProvisions, face: str, db: float
     return bars_per_layer(inp.bw, cover, ds, bend, db, clear), clear, bend_words
 
 
+_FACES: dict[tuple, tuple[tuple[float, int, int], list[str], list[str]]] = {}
+FACES_KEPT = 4096  # distinct faces remembered (a building repeats a few hundred)
+
+
 def _face(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str, bars: BarArrangement,
           name: str) -> tuple[tuple[float, int, int], list[str], list[str]]:
-    """((worst count/fit, its count, its fit), problems, notes) for the bars at one face."""
+    """((worst count/fit, its count, its fit), problems, notes) for the bars at one face.
+
+    The answer depends only on the values in the key below, and a schedule repeats them from
+    span to span: without a trace to write, each distinct face is worked out once."""
+    if ctx.tracing:
+        return _face_worked(ctx, code, loc, face, bars, name)
+    inp = ctx.inp
+    flange = None if ctx.flange is None else (ctx.flange.overhang, ctx.flange.clause)
+    key = (face, bars, name, inp.shape, inp.bw, inp.cover_top if face == "top" else inp.cover_bottom,
+           inp.stirrups, inp.agg, flange, code)
+    held = _FACES.get(key)
+    if held is None:
+        if len(_FACES) >= FACES_KEPT:
+            _FACES.clear()
+        held = _FACES[key] = _face_worked(ctx, code, loc, face, bars, name)
+    return held
+
+
+def _face_worked(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str, bars: BarArrangement,
+                 name: str) -> tuple[tuple[float, int, int], list[str], list[str]]:
     inp, t = ctx.inp, ctx.add_trace
     clause = ctx.code.clauses["bar_spacing"]
     cover = inp.cover_top if face == "top" else inp.cover_bottom
