@@ -174,6 +174,10 @@ class Stirrups:
 _DASHES = str.maketrans({"\u2013": "-", "\u2014": "-", "\u2212": "-", "\u00d7": "x"})
 _GROUP = re.compile(r"^(\d+)\s*-\s*(\d+)\s*M$", re.IGNORECASE)
 _SIZE = re.compile(r"^(\d+)\s*M$", re.IGNORECASE)
+# Not a limit of any standard: a plausibility ceiling on the bars in one group (a wide band beam
+# holds a few dozen in a layer; common practice). A larger count is a typing slip, and its area
+# could not even be represented.
+MAX_GROUP_COUNT = 1000
 _GROUP_EXPECTED = "a bar group such as '4-25M' (count, dash, size)"
 
 
@@ -184,7 +188,11 @@ def _parse_group(text: str, whole: str) -> BarGroup:
             f"cannot read '{text.strip()}' in '{whole}': expected {_GROUP_EXPECTED}; "
             "join sizes in one layer with '+' and layers with '/', e.g. '2-25M + 2-20M / 2-20M'"
         )
-    count = int(m.group(1))
+    digits = m.group(1).lstrip("0") or "0"
+    if len(digits) > len(str(MAX_GROUP_COUNT)) or int(digits) > MAX_GROUP_COUNT:
+        raise NotationError(f"'{text.strip()[:40]}' in '{whole[:60]}': a bar count of at most {MAX_GROUP_COUNT} "
+                            "was expected (no beam layer holds more)")
+    count = int(digits)
     if count < 1:
         raise NotationError(f"'{text.strip()}' in '{whole}': the bar count must be 1 or more")
     return BarGroup(count, bar(m.group(2) + "M"))

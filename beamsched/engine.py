@@ -24,7 +24,7 @@ from .model import (
     Schedule,
     TraceLine,
     WorkedOutTuple,
-    beam_status,
+    status_of,
 )
 
 # Not a limit of the standard: the smallest web width or depth read as millimetres. Joist ribs
@@ -253,13 +253,13 @@ def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool,
     for i, ctx in contexts:
         for module in CHECK_MODULES:
             module.run(ctx)
-        checks = tuple(ctx.results)
+        rows = ctx.results
         inp = ctx.inp
         if chunk is not None:
             chunk.roots[i] = flexure.found_roots(ctx)
         out[i] = BeamResult(
-            inp.mark, inp.span_no, inp.row, beam_status(checks),
-            checks=checks if tracing else PackedChecks(checks), values=dict(ctx.values),
+            inp.mark, inp.span_no, inp.row, status_of([(row[4], row[10]) for row in rows]),
+            checks=ctx.checks() if tracing else PackedChecks.of_rows(rows), values=dict(ctx.values),
             trace=tuple(ctx.trace) if chunk is None else LazyTrace(chunk, i),  # type: ignore[arg-type]
             problems=inp.warnings, assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
         )

@@ -17,6 +17,7 @@ from collections import OrderedDict
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from enum import Enum
+from itertools import chain
 from typing import Literal
 
 from .bars import BarArrangement, Stirrups
@@ -245,11 +246,28 @@ class PackedChecks(WorkedOutTuple):
     _recent = RecentlyRead(KEEP)
 
     def __init__(self, checks: Sequence[CheckResult]):
-        kinds = tuple([(c.id, c.label, c.location, c.clause, c.unit, c.required) for c in checks])
+        self._pack([(c.id, c.label, c.location, c.clause, c.status, c.message, c.demand, c.capacity, c.unit,
+                     c.utilisation, c.required) for c in checks])
+
+    @classmethod
+    def of_rows(cls, rows: Sequence[tuple]) -> PackedChecks:
+        """The results given as rows, each the fields of a :class:`CheckResult` in order."""
+        packed = cls.__new__(cls)
+        packed._pack(rows)
+        return packed
+
+    def _pack(self, rows: Sequence[tuple]) -> None:
+        if not rows:
+            ids = labels = locations = clauses = statuses = messages = demands = capacities = units = \
+                utilisations = required = ()
+        else:
+            (ids, labels, locations, clauses, statuses, messages, demands, capacities, units, utilisations,
+             required) = zip(*rows, strict=True)
+        kinds = tuple(zip(ids, labels, locations, clauses, units, required, strict=True))
         self._kinds = PackedChecks._kind_lists.setdefault(kinds, kinds)
-        self._status = bytes([_STATUS_CODES[c.status] for c in checks])
-        self._messages = tuple([c.message for c in checks])
-        values = [v for c in checks for v in (c.demand, c.capacity, c.utilisation)]
+        self._status = bytes(map(_STATUS_CODES.__getitem__, statuses))
+        self._messages = messages
+        values = list(chain.from_iterable(zip(demands, capacities, utilisations, strict=True)))
         absent = ints = 0
         for k, v in enumerate(values):  # bit k of each mask: value k is None / an int
             if type(v) is not float:
@@ -323,13 +341,18 @@ class BeamResult:
         return tuple(c for c in self.checks if c.status is CheckStatus.NOT_CHECKED)
 
 
-def beam_status(checks: tuple[CheckResult, ...] | list[CheckResult]) -> BeamStatus:
+def beam_status(checks: Sequence[CheckResult]) -> BeamStatus:
     """A span passes only when every required check was made and passed (issue contract)."""
-    if any(c.status is CheckStatus.FAIL for c in checks):
+    return status_of([(c.status, c.required) for c in checks])
+
+
+def status_of(made: Sequence[tuple[CheckStatus, bool]]) -> BeamStatus:
+    """:func:`beam_status` from each check's (status, required)."""
+    if any(status is CheckStatus.FAIL for status, _ in made):
         return BeamStatus.FAIL
-    if any(c.status is CheckStatus.NOT_CHECKED and c.required for c in checks):
+    if any(status is CheckStatus.NOT_CHECKED and required for status, required in made):
         return BeamStatus.INCOMPLETE
-    if not checks:
+    if not made:
         return BeamStatus.INCOMPLETE
     return BeamStatus.PASS
 

@@ -53,6 +53,9 @@ def test_unknown_size_names_the_sizes_known():
     ("4-25M /", "empty layer"),
     ("0-25M", "count must be 1 or more"),
     ("25M", "expected a bar group"),
+    # a plausibility ceiling, not a clause: no beam layer holds over 1000 bars (common practice)
+    ("1001-10M", "a bar count of at most 1000"),
+    ("9" * 400 + "-25M", "a bar count of at most 1000"),
 ])
 def test_unreadable_bars_say_what_was_expected(text, fragment):
     with pytest.raises(NotationError, match=fragment):
@@ -81,6 +84,19 @@ def test_parse_stirrups(text, size, spacing, legs):
 def test_bad_stirrups(text, fragment):
     with pytest.raises(NotationError, match=fragment):
         parse_stirrups(text)
+
+
+def test_arrangement_totals_worked_out_when_made():
+    # areas from the CSA G30.18 catalogue (from memory, see test_catalogue_matches_g30_18)
+    bars = parse_bars("2-25M + 2-20M / 2-20M")
+    assert (bars.area, bars.count, bars.max_db, bars.largest_bar.size) == (2 * 500 + 2 * 300 + 2 * 300, 6, 25.2, "25M")
+    assert [(layer.area, layer.count, layer.max_db) for layer in bars.layers] == [(1600.0, 4, 25.2), (600.0, 2, 19.5)]
+    assert parse_bars("1000-10M").area == 100_000.0  # the ceiling itself still reads
+    # equal notation, equal and equally hashed arrangements, also after a pickle round trip
+    import pickle
+    again = pickle.loads(pickle.dumps(bars))
+    assert again == bars and hash(again) == hash(bars) and str(again) == str(bars)
+    assert len({bars, parse_bars("2-25M+2-20M/2-20M"), again}) == 1
 
 
 def test_notation_round_trips():

@@ -17,7 +17,7 @@ import numpy as np
 
 from ..bars import BarArrangement
 from ..codes import DesignCode, FlangeWidth
-from ..model import BeamInput, CheckResult, Location, TraceLine
+from ..model import BeamInput, CheckResult, CheckStatus, Location, TraceLine
 from ..section import PlacedBars, Rect, Section, centroid_depth, place_bars
 from ..solve.flexure import (
     FlexureSolution,
@@ -120,7 +120,7 @@ class SpanContext:
         self.trace: list[TraceLine] = []
         self.values: dict[str, float | str | None] = {}
         self.understood: dict[str, str] = {}
-        self.results: list[CheckResult] = []
+        self.results: list[tuple] = []  # each a CheckResult's fields, in order (see result)
         self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
         # As,req by (sense, location, Mf): see checks.flexure.required_steel
         self.required: dict[tuple[Sense, Location, float], float] = {}
@@ -158,15 +158,26 @@ class SpanContext:
         if self.tracing:
             self.trace.append(TraceLine(check, location, symbol, value, unit, clause, description))
 
-    def add(self, result: CheckResult) -> CheckResult:
-        # The same note recurs across a schedule (a few thousand distinct texts in 280,000
-        # results for 10,000 spans): one shared copy of each keeps a building's results small.
-        message = sys.intern(result.message)
-        if message is not result.message:
-            # the result is new and not yet shared: give it the shared copy of its text
-            object.__setattr__(result, "message", message)
-        self.results.append(result)
-        return result
+    def result(self, id: str, label: str, location: Location, clause: str, status: CheckStatus, message: str,
+               demand: float | None = None, capacity: float | None = None, unit: str = "",
+               utilisation: float | None = None, required: bool = True) -> None:
+        """Add one check's result (the fields of a :class:`CheckResult`, in its order).
+
+        A span's results are kept as rows of those fields: a whole schedule's are packed
+        (:class:`~beamsched.model.PackedChecks`) and made into objects only when read. The same
+        note recurs across a schedule (a few thousand distinct texts in 280,000 results for
+        10,000 spans): one shared copy of each keeps a building's results small."""
+        self.results.append((id, label, location, clause, status, sys.intern(message), demand, capacity, unit,
+                             utilisation, required))
+
+    def add(self, result: CheckResult) -> None:
+        """Add a result made as a :class:`CheckResult` (as :meth:`result`)."""
+        self.result(result.id, result.label, result.location, result.clause, result.status, result.message,
+                    result.demand, result.capacity, result.unit, result.utilisation, result.required)
+
+    def checks(self) -> tuple[CheckResult, ...]:
+        """The results added so far, as objects."""
+        return tuple(CheckResult(*row) for row in self.results)
 
     # -- flexure ----------------------------------------------------------------------
     def bars_for(self, sense: Sense, location: Location) -> tuple[BarArrangement | None, BarArrangement | None, str]:

@@ -26,7 +26,7 @@ import math
 
 from ..bars import BarArrangement
 from ..codes.base import DetailingProvisions
-from ..model import CheckResult, CheckStatus, Location
+from ..model import CheckStatus, Location
 from ..solve.shear import LayerFit, bars_per_layer
 from .context import SpanContext
 from .flexure import cases
@@ -141,22 +141,22 @@ def _bar_fit(ctx: SpanContext, code: DetailingProvisions, loc: Location,
     ratio, count, fit = worst
     if problems:
         msg = "; ".join(problems) + f" (minimum clear spacing: {clause})."
-        ctx.add(CheckResult("bar_fit", "Bar fit", loc, clause, CheckStatus.FAIL, msg[0].upper() + msg[1:],
-                            demand=count, capacity=fit, unit="bars", utilisation=max(ratio, 1.0 + 1e-9)))
+        ctx.result("bar_fit", "Bar fit", loc, clause, CheckStatus.FAIL, msg[0].upper() + msg[1:],
+                   demand=count, capacity=fit, unit="bars", utilisation=max(ratio, 1.0 + 1e-9))
     else:
         # a full layer (count = fit) is not "near failure" as Mf = Mr is: no utilisation on a pass,
         # so a fitting layer never ranks as a span's governing check
-        ctx.add(CheckResult("bar_fit", "Bar fit", loc, clause, CheckStatus.PASS, "; ".join(notes),
-                            demand=count, capacity=fit, unit="bars"))
+        ctx.result("bar_fit", "Bar fit", loc, clause, CheckStatus.PASS, "; ".join(notes),
+                   demand=count, capacity=fit, unit="bars")
 
 
 def _flange_tension(ctx: SpanContext, loc: Location) -> None:
     clause = ctx.code.clauses["flange_tension"]
-    ctx.add(CheckResult(
+    ctx.result(
         "flange_tension", "Flange in tension", loc, clause, CheckStatus.NOT_CHECKED,
         f"Reminder: the flange is in tension {WHERE[loc]}; part of the top steel there must be distributed over the "
         f"effective flange width (cl. {clause}). The schedule does not show the distribution, so it was not checked.",
-        required=False))
+        required=False)
 
 
 def _skin(ctx: SpanContext, code: DetailingProvisions) -> None:
@@ -187,12 +187,12 @@ def _skin(ctx: SpanContext, code: DetailingProvisions) -> None:
     t("skin_steel", None, "As,sk,min", need, "mm²", clause, "ρsk ts × zone, on each side face")
     t("skin_steel", None, "n,min", n_need, "bars", clause, f"bars on each face so that none is more than {smax:g} mm apart")
     if inp.skin_bars is None:
-        ctx.add(CheckResult(
+        ctx.result(
             "skin_steel", "Skin steel", None, clause, CheckStatus.NOT_CHECKED,
             f"h = {inp.h:g} mm > 750 mm: skin reinforcement is required on both side faces over {zone_words} (cl. "
             f"{clause}): about {need:.0f} mm² on each face (ρsk = {rho:g}), at most {smax:g} mm apart (at least "
             f"{n_need} bar{'s' if n_need > 1 else ''} a face). None is scheduled, so it was not checked: schedule the skin bars.",
-            demand=need, unit="mm²"))
+            demand=need, unit="mm²")
         return
     have = inp.skin_bars.area
     n = inp.skin_bars.count
@@ -206,15 +206,15 @@ def _skin(ctx: SpanContext, code: DetailingProvisions) -> None:
         problems.append(f"{n} bars a face over {zone:.0f} mm are {spacing:.0f} mm apart > {smax:g} mm")
     u = max(need / have if have > 0 else math.inf, spacing / smax)
     if problems:
-        ctx.add(CheckResult("skin_steel", "Skin steel", None, clause, CheckStatus.FAIL,
-                            "Skin reinforcement (h > 750 mm, cl. " + clause + "): " + "; ".join(problems)
-                            + f": use at least {max(n_need, math.ceil(need / inp.skin_bars.largest_bar.area))}-"
-                            f"{inp.skin_bars.largest_bar.size} a face ({need:.0f} mm², at most {smax:g} mm apart).",
-                            demand=need, capacity=have, unit="mm²", utilisation=u))
+        ctx.result("skin_steel", "Skin steel", None, clause, CheckStatus.FAIL,
+                   "Skin reinforcement (h > 750 mm, cl. " + clause + "): " + "; ".join(problems)
+                   + f": use at least {max(n_need, math.ceil(need / inp.skin_bars.largest_bar.area))}-"
+                   f"{inp.skin_bars.largest_bar.size} a face ({need:.0f} mm², at most {smax:g} mm apart).",
+                   demand=need, capacity=have, unit="mm²", utilisation=u)
     else:
-        ctx.add(CheckResult("skin_steel", "Skin steel", None, clause, CheckStatus.PASS,
-                            f"h > 750 mm: skin bars required and provided ({zone_words})",
-                            demand=need, capacity=have, unit="mm²", utilisation=u))
+        ctx.result("skin_steel", "Skin steel", None, clause, CheckStatus.PASS,
+                   f"h > 750 mm: skin bars required and provided ({zone_words})",
+                   demand=need, capacity=have, unit="mm²", utilisation=u)
 
 
 def run(ctx: SpanContext) -> None:

@@ -15,7 +15,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..model import BeamInput, CheckResult, CheckStatus, Location
+from ..model import BeamInput, CheckStatus, Location
 from ..solve.flexure import required_scale
 from .context import NMM_PER_KNM, FlexureCase, Sense, SpanContext, solve_cases
 
@@ -123,18 +123,18 @@ def _flexure(ctx: SpanContext, sense: Sense, loc: Location) -> FlexureCase | Non
     clause = ctx.code.clauses["flexure"]
     case = ctx.flexure(sense, loc)
     if isinstance(case, str):
-        ctx.add(CheckResult(cid, label, loc, clause, CheckStatus.NOT_CHECKED,
-                            f"{SENSE_WORDS[sense].capitalize()} flexure {WHERE[loc]} not checked: {case} (cl. {clause}).",
-                            demand=None if mf is None else mf / NMM_PER_KNM, unit="kN·m"))
+        ctx.result(cid, label, loc, clause, CheckStatus.NOT_CHECKED,
+                   f"{SENSE_WORDS[sense].capitalize()} flexure {WHERE[loc]} not checked: {case} (cl. {clause}).",
+                   demand=None if mf is None else mf / NMM_PER_KNM, unit="kN·m")
         return None
     _trace_case(ctx, cid, case)
     mr = case.Mr / NMM_PER_KNM
     ctx.values[VALUE_KEYS[(sense, loc)]] = mr
     if mf is None:
-        ctx.add(CheckResult(cid, label, loc, clause, CheckStatus.NOT_CHECKED,
-                            f"{name} is not scheduled, so {SENSE_WORDS[sense]} flexure {WHERE[loc]} was not checked "
-                            f"(Mr = {mr:.1f} kN·m; cl. {clause}). A blank demand is never read as zero.",
-                            capacity=mr, unit="kN·m"))
+        ctx.result(cid, label, loc, clause, CheckStatus.NOT_CHECKED,
+                   f"{name} is not scheduled, so {SENSE_WORDS[sense]} flexure {WHERE[loc]} was not checked "
+                   f"(Mr = {mr:.1f} kN·m; cl. {clause}). A blank demand is never read as zero.",
+                   capacity=mr, unit="kN·m")
         return case
     mf_k = mf / NMM_PER_KNM
     u = utilisation(mf_k, mr)
@@ -142,8 +142,8 @@ def _flexure(ctx: SpanContext, sense: Sense, loc: Location) -> FlexureCase | Non
     msg = "" if ok else (
         f"{name} = {mf_k:.1f} kN·m exceeds Mr = {mr:.1f} kN·m {WHERE[loc]} (cl. {clause}): "
         f"add {'bottom' if sense == 'pos' else 'top'} steel or enlarge the section.")
-    ctx.add(CheckResult(cid, label, loc, clause, CheckStatus.PASS if ok else CheckStatus.FAIL, msg,
-                        demand=mf_k, capacity=mr, unit="kN·m", utilisation=u))
+    ctx.result(cid, label, loc, clause, CheckStatus.PASS if ok else CheckStatus.FAIL, msg,
+               demand=mf_k, capacity=mr, unit="kN·m", utilisation=u)
     return case
 
 
@@ -157,9 +157,9 @@ def _cd_limit(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase) 
         f"c/d = {cd:.3f} exceeds {limit:.3f} = 700/(700 + fy) {WHERE[loc]} (cl. {clause}): the tension steel "
         "does not yield (over-reinforced). Mr was found by strain compatibility, but practice avoids "
         "this: enlarge the section, raise f'c, or add compression steel.")
-    ctx.add(CheckResult(f"cd_limit_{sense}", "c/d limit " + ("+" if sense == "pos" else "−"), loc, clause,
-                        CheckStatus.PASS if ok else CheckStatus.FAIL, msg, demand=cd, capacity=limit,
-                        unit="", utilisation=cd / limit))
+    ctx.result(f"cd_limit_{sense}", "c/d limit " + ("+" if sense == "pos" else "−"), loc, clause,
+               CheckStatus.PASS if ok else CheckStatus.FAIL, msg, demand=cd, capacity=limit,
+               unit="", utilisation=cd / limit)
 
 
 def required_steel(ctx: SpanContext, case: FlexureCase, mf: float) -> float:
@@ -238,10 +238,10 @@ def _min_steel(ctx: SpanContext, sense: Sense, loc: Location, case: FlexureCase)
         f"As = {as_prov:.0f} mm² is less than As,min = {as_min:.0f} mm² {WHERE[loc]} (cl. {clause}, bt = {bt:.0f} mm)"
         + ("" if mf is None else f" and less than 4/3 of the {as_req:.0f} mm² Mf needs (cl. {exempt_clause})")
         + ": add tension steel.")
-    ctx.add(CheckResult(cid, "Min. steel " + ("+" if sense == "pos" else "−"), loc,
-                        f"{clause}, {exempt_clause}", CheckStatus.PASS if ok else CheckStatus.FAIL,
-                        msg or note.strip(" ()"), demand=need, capacity=as_prov, unit="mm²",
-                        utilisation=need / as_prov if as_prov > 0 else math.inf))
+    ctx.result(cid, "Min. steel " + ("+" if sense == "pos" else "−"), loc,
+               f"{clause}, {exempt_clause}", CheckStatus.PASS if ok else CheckStatus.FAIL,
+               msg or note.strip(" ()"), demand=need, capacity=as_prov, unit="mm²",
+               utilisation=need / as_prov if as_prov > 0 else math.inf)
 
 
 CASE_KEYS: tuple[tuple[Sense, Location], ...] = (("pos", "mid"), ("neg", "left"), ("neg", "right"),
@@ -283,10 +283,10 @@ def run(ctx: SpanContext) -> None:
     inp = ctx.inp
     if "free" in (inp.left_end, inp.right_end) and inp.Mf_pos is None:
         clause = ctx.code.clauses["flexure"]
-        ctx.add(CheckResult("flexure_pos", "Flexure +", "mid", clause, CheckStatus.NOT_CHECKED,
-                            f"Cantilever with no Mf+ scheduled: a cantilever under gravity load hogs along its "
-                            f"length, so sagging at midspan was not checked (cl. {clause}). Schedule Mf+ if the "
-                            f"span can sag (uplift, load reversal).", unit="kN·m", required=False))
+        ctx.result("flexure_pos", "Flexure +", "mid", clause, CheckStatus.NOT_CHECKED,
+                   f"Cantilever with no Mf+ scheduled: a cantilever under gravity load hogs along its "
+                   f"length, so sagging at midspan was not checked (cl. {clause}). Schedule Mf+ if the "
+                   f"span can sag (uplift, load reversal).", unit="kN·m", required=False)
     for sense, loc in cases(ctx):
         case = _flexure(ctx, sense, loc)
         if case is None:
