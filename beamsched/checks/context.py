@@ -95,6 +95,7 @@ class SpanContext:
         self.understood: dict[str, str] = {}
         self.results: list[CheckResult] = []
         self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
+        self.shear: object | None = None  # this span's part of checks.shear.prepare's columns
         # As,req by (sense, location, Mf): see checks.flexure.required_steel
         self.required: dict[tuple[Sense, Location, float], float] = {}
         # placed bars by (arrangement, face, explicit depth); the arrangements are the input's
