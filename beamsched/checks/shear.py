@@ -26,7 +26,6 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
 from typing import Literal, NamedTuple
 
 import numpy as np
@@ -48,8 +47,10 @@ from .context import N_PER_KN, NMM_PER_KNM, End, SpanContext
 WHERE = {None: "over the span", "left": "at the left support", "right": "at the right support"}
 
 
-@dataclass(frozen=True, slots=True)
-class TensionSide:
+ENDS: tuple[End, End] = ("left", "right")
+
+
+class TensionSide(NamedTuple):
     face: Literal["top", "bottom"]
     bars: BarArrangement | None
     name: str
@@ -57,28 +58,35 @@ class TensionSide:
     mf_words: str
 
 
+# what the tension steel and the moment at an end are called, by end and why the top bars are in tension
+_HOGGING_WHY = {"continuous": "continuous end", "free": "free end", "simple": "Mf- scheduled at a simple end"}
+_TOP_WORDS = {(end, cond): (f"top bars at the {end} support ({why})", f"Mf- {end[0].upper()} (hogging, {why})")
+              for end in ENDS for cond, why in _HOGGING_WHY.items()}
+_SAGGING_WORDS = {end: f"Mf+ {end[0].upper()} (sagging at the support)" for end in ENDS}
+
+
 def tension_side(ctx: SpanContext, end: End) -> TensionSide:
     """Which steel is the flexural tension steel at this end, and the moment there."""
     inp = ctx.inp
-    cond = inp.end_condition(end)
-    mf_neg = inp.Mf_neg_left if end == "left" else inp.Mf_neg_right
-    if cond in ("continuous", "free") or (mf_neg is not None and mf_neg > 0):
-        why = {"continuous": "continuous end", "free": "free end"}.get(cond, "Mf- scheduled at a simple end")
-        mf, words = mf_neg, f"Mf- {end[0].upper()} (hogging, {why})"
-        if mf is None and cond == "free":
-            mf, words = 0.0, "no moment at a free end (statics)"
-        return TensionSide("top", inp.top_bars_at(end), f"top bars at the {end} support ({why})", mf, words)
-    mf_pos = inp.Mf_pos_left if end == "left" else inp.Mf_pos_right
+    left = end == "left"
+    cond = inp.left_end if left else inp.right_end
+    mf_neg = inp.Mf_neg_left if left else inp.Mf_neg_right
+    if cond == "continuous" or cond == "free" or (mf_neg is not None and mf_neg > 0):
+        name, words = _TOP_WORDS.get((end, cond)) or _TOP_WORDS[end, "simple"]
+        bars = inp.top_bars_left if left else inp.top_bars_right
+        if mf_neg is None and cond == "free":
+            return TensionSide("top", bars, name, 0.0, "no moment at a free end (statics)")
+        return TensionSide("top", bars, name, mf_neg, words)
+    mf_pos = inp.Mf_pos_left if left else inp.Mf_pos_right
     bars, name = inp.bottom_bars_support, "bottom bars at the supports (simple support)"
     if bars is None:
         bars = inp.bottom_bars
         name = "bottom bars (taken to run into the simple support)" if bars is not None else "bottom bars"
     if mf_pos is None:
         return TensionSide("bottom", bars, name, 0.0, "no moment at the face of a simple support (statics)")
-    return TensionSide("bottom", bars, name, mf_pos, f"Mf+ {end[0].upper()} (sagging at the support)")
+    return TensionSide("bottom", bars, name, mf_pos, _SAGGING_WORDS[end])
 
 
-ENDS: tuple[End, End] = ("left", "right")
 MIN_STIRRUPS_TOLERANCE = 1 - 1e-12  # Av counts as Av,min when short of it by rounding only
 SPACING_TOLERANCE = 1 + 1e-12  # s counts as within a limit when over it by rounding only
 
@@ -178,7 +186,7 @@ def vf_at(ctx: SpanContext, end: End) -> float | None:
 
 def _or_none(values: np.ndarray, present: np.ndarray) -> list:
     """A column as Python numbers, None where not ``present``."""
-    return [v if k else None for v, k in zip(values.tolist(), present.tolist(), strict=True)]
+    return np.where(present, values.astype(object), None).tolist()
 
 
 def prepare(contexts: Sequence[SpanContext]) -> None:
@@ -221,17 +229,23 @@ def _prepare(spans: list[SpanContext], code: DetailingProvisions) -> None:
     d_list: list[float] = []
     as_list: list[float] = []
     vf_list: list[float | None] = []
+    area_of: dict[int, float] = {}  # As of each arrangement (the reader shares arrangements between spans)
     for ctx in spans:
+        h_span = ctx.inp.h
         for end in ENDS:
             side = tension_side(ctx, end)
             sides.append(side)
             vf_list.append(vf_at(ctx, end))
-            if side.bars is None:
+            bars = side.bars
+            if bars is None:
                 d_list.append(math.nan)
                 as_list.append(math.nan)
-            else:
-                d_list.append(ctx.inp.h - centroid_depth(ctx.place(side.bars, side.face, tension=True)))
-                as_list.append(side.bars.area)
+                continue
+            d_list.append(h_span - centroid_depth(ctx.place(bars, side.face, tension=True)))
+            area = area_of.get(id(bars))
+            if area is None:
+                area = area_of[id(bars)] = bars.area
+            as_list.append(area)
     d = np.array(d_list)
     As = np.array(as_list)
     vf = np.array([math.nan if v is None else v for v in vf_list], dtype=float)
@@ -322,48 +336,74 @@ def _prepare(spans: list[SpanContext], code: DetailingProvisions) -> None:
         limit = np.where(high, tight, loose)
         sp_u = sp_s / limit
         needed = np.concatenate([no_vf | over_vc | deep_r, np.ones(len(spans), dtype=bool)])
-    statuses = (CheckStatus.PASS, CheckStatus.NOT_CHECKED, CheckStatus.FAIL)
-    spacing = list(map(Spacing, sp_dv.tolist(), vhigh.tolist(), loose.tolist(), loose_dv.tolist(), tight.tolist(),
-                       tight_dv.tolist(), _or_none(high, high_known), [statuses[k] for k in sp_status.tolist()],
-                       limit.tolist(), sp_u.tolist(), needed.tolist()))
-
-    long_ok = solved & ~no_vf & ~no_mf
-    longs = [None if not k else LongSteel(*x) for k, x in zip(
-        long_ok.tolist(), zip(theta.tolist(), vs_used.tolist(), ft.tolist(), cap.tolist(), u_long.tolist(),
-                              develop_k.tolist(), strict=True), strict=True)]
-    general = ~simplified
-    ends = list(map(
-        EndShear, ENDS * len(spans), sides, d_list, dv.tolist(), as_list, vf_list, [v for v in nf_list for _ in ENDS],
-        simplified.tolist(), special.tolist(), av_r.tolist(), [v for v in s_list for _ in ENDS],
-        _or_none(rows(av_min_span), rows(has_st)), has_min.tolist(), (rows(has_st) & ~has_min).tolist(),
-        root.tolist(), beta.tolist(), _or_none(theta, ~np.isnan(theta)), rule.tolist(), _or_none(sze, ~np.isnan(sze)),
-        _or_none(eps_x, general), beta0.tolist(), rule0.tolist(), _or_none(m_used, general),
-        _or_none(eps_raw, general), vc.tolist(), vc0.tolist(), vs.tolist(), vr_max.tolist(), res.vr.tolist(),
-        res.capped.tolist(), vr_k.tolist(), (vc / N_PER_KN).tolist(), (vs / N_PER_KN).tolist(),
-        _or_none(u, ~no_vf), (over_vc & solved).tolist(), longs))
-
+    # each span's part, as Python values: only the rows that are read
     n2 = 2 * len(spans)
+    nf_rows = [v for v in nf_list for _ in ENDS]
+    s_rows = [v for v in s_list for _ in ENDS]
+    general = ~simplified
+    idx = np.flatnonzero(solved)
+    ends: list[EndShear | str] = [""] * n2
+    for r, e in zip(idx.tolist(), map(EndShear._make, zip(
+            *(_take(c, idx) for c in (list(ENDS * len(spans)), sides, d_list, dv, as_list, vf_list, nf_rows,
+                                      simplified, special, av_r, s_rows)),
+            _take(rows(av_min_span), idx, rows(has_st)), *(_take(c, idx) for c in (has_min, rows(has_st) & ~has_min,
+                                                                                  root, beta)),
+            _take(theta, idx, ~np.isnan(theta)), _take(rule, idx), _take(sze, idx, ~np.isnan(sze)),
+            _take(eps_x, idx, general), _take(beta0, idx), _take(rule0, idx), _take(m_used, idx, general),
+            _take(eps_raw, idx, general),
+            *(_take(c, idx) for c in (vc, vc0, vs, vr_max, res.vr, res.capped, vr_k, vc / N_PER_KN, vs / N_PER_KN)),
+            _take(u, idx, ~no_vf), _take(over_vc, idx), _long_steel_rows(idx, solved & ~no_vf & ~no_mf, theta, vs_used,
+                                                                       ft, cap, u_long, develop_k),
+            strict=True)), strict=True):
+        ends[r] = e
     for r in np.flatnonzero(~solved).tolist():
         side = sides[r]
         if side.bars is None:
-            reason = f"no {side.name} scheduled, so d and dv are unknown"
+            ends[r] = f"no {side.name} scheduled, so d and dv are unknown"
         elif vf_list[r] is None:
-            reason = "the general method needs Vf at this end for εx"
+            ends[r] = "the general method needs Vf at this end for εx"
         else:
-            reason = (f"the general method (cl. {spans[r // 2].code.clauses['shear_general']}) needs the moment at "
-                      f"this end for εx: {side.mf_words} is not scheduled")
-        ends[r] = reason  # type: ignore[call-overload]
+            ends[r] = (f"the general method (cl. {spans[r // 2].code.clauses['shear_general']}) needs the moment at "
+                       f"this end for εx: {side.mf_words} is not scheduled")
+
+    # the spacing check where it is made: stirrups and a section at the end; over the span where no Vf
+    # is scheduled at either end (dv the lesser of the ends' that could be made)
+    both_none = np.isnan(vf[::2]) & np.isnan(vf[1::2])
+    made = np.concatenate([solved & rows(has_st), has_st & both_none & (ok_l | ok_r)])
+    spacing: list[Spacing | None] = [None] * len(made)
+    sp_idx = np.flatnonzero(made)
+    statuses = (CheckStatus.PASS, CheckStatus.NOT_CHECKED, CheckStatus.FAIL)
+    for r, x in zip(sp_idx.tolist(), map(Spacing._make, zip(
+            *(_take(c, sp_idx) for c in (sp_dv, vhigh, loose, loose_dv, tight, tight_dv)),
+            _take(high, sp_idx, high_known), [statuses[k] for k in sp_status[sp_idx].tolist()],
+            *(_take(c, sp_idx) for c in (limit, sp_u, needed)), strict=True)), strict=True):
+        spacing[r] = x
+
     rate_l, av_min_l, sat_l, u_min_l, deep_l = (rate.tolist(), _or_none(av_min, has_st), satisfied.tolist(),
                                                 _or_none(u_min, has_st), deep.tolist())
     for i, ctx in enumerate(spans):
-        left, right = ends[2 * i], ends[2 * i + 1]
-        st = has_st[i]
         ctx.shear = SpanShear(
-            {"left": left, "right": right}, {"left": vf_list[2 * i], "right": vf_list[2 * i + 1]},
+            {"left": ends[2 * i], "right": ends[2 * i + 1]}, {"left": vf_list[2 * i], "right": vf_list[2 * i + 1]},
             rate_l[i], av_min_l[i], sat_l[i], u_min_l[i], deep_l[i],
-            {"left": spacing[2 * i] if st and isinstance(left, EndShear) else None,
-             "right": spacing[2 * i + 1] if st and isinstance(right, EndShear) else None,
-             None: spacing[n2 + i] if st and (isinstance(left, EndShear) or isinstance(right, EndShear)) else None})
+            {"left": spacing[2 * i], "right": spacing[2 * i + 1], None: spacing[n2 + i]})
+
+
+def _take(column: np.ndarray | list, idx: np.ndarray, present: np.ndarray | None = None) -> list:
+    """Rows ``idx`` of a column as Python values (None where not ``present``)."""
+    if not isinstance(column, np.ndarray):
+        return [column[i] for i in idx.tolist()]
+    if present is None:
+        return column[idx].tolist()
+    return np.where(present[idx], column[idx].astype(object), None).tolist()
+
+
+def _long_steel_rows(idx: np.ndarray, checked: np.ndarray, *columns: np.ndarray) -> list[LongSteel | None]:
+    """The longitudinal-steel numbers of rows ``idx`` (None where that check is not made)."""
+    out: list[LongSteel | None] = [None] * len(idx)
+    at = np.flatnonzero(checked[idx])
+    for k, row in zip(at.tolist(), zip(*(c[idx[at]].tolist() for c in columns), strict=True), strict=True):
+        out[k] = LongSteel._make(row)
+    return out
 
 
 def solve_end(ctx: SpanContext, end: End) -> EndShear | str:

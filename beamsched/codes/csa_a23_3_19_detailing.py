@@ -202,7 +202,7 @@ class CSAA23319Detailing(DetailingProvisions):
     def min_stirrups_tests(self, vf: ArrayLike, vc: ArrayLike, h: ArrayLike) -> tuple[NDArray[np.bool_], ...]:
         """cl. 11.2.8.1: (a) where Vf > Vc; (b) beams with h > 750 mm; (c) where Tf > 0.25 Tcr
         (torsion above the threshold makes the span incomplete, see the torsion check)."""
-        return np.asarray(vf, dtype=float) > vc, np.asarray(h) > self.H_MIN_STIRRUPS
+        return vf > vc, h > self.H_MIN_STIRRUPS  # type: ignore[operator]  (numbers or arrays alike)
 
     def min_stirrups_reasons(self, vf: float | None, vc: float, h: float) -> list[str]:
         """The tests of :meth:`min_stirrups_tests` that are met, in words (cl. 11.2.8.1)."""
