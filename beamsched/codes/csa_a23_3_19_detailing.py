@@ -165,7 +165,7 @@ class CSAA23319Detailing(DetailingProvisions):
         beta = 0.40 / (1.0 + 1500.0 * eps) * 1300.0 / (1000.0 + sze)
         theta = 29.0 + 7000.0 * eps
         rule = np.where(min_stirrups, self.GENERAL_MIN_STIRRUPS, self.GENERAL)
-        return ShearAngles(beta, theta, rule, sze, eps)
+        return ShearAngles(*np.broadcast_arrays(beta, theta, rule, sze, eps))
 
     def shear_rule(self, rule: int) -> tuple[str, str]:
         """The method and clause of each rule: cl. 11.3.6.3, 11.3.6.4, 11.3.6.2."""
