@@ -20,6 +20,11 @@ required, ``min_stirrups`` passes with a note and no utilisation, and the spacin
 no stirrup (too wide a spacing passes with a note). A negative Vf is read as its magnitude.
 In ``long_steel_shear`` Vs is not taken greater than Vf; at a simple support the note says the
 bottom bars must be anchored past the face (development is not checked).
+
+How: :func:`prepare` works out both ends of every span of a chunk at once, over columns of one
+row an end (the provisions of ``codes/`` and the arithmetic of ``solve/shear.py`` take arrays),
+down to each check's decision; :func:`run` then makes each span's results and trace from those
+numbers, formatting a note only where one is shown.
 """
 
 from __future__ import annotations
@@ -466,6 +471,10 @@ def _trace(ctx: SpanContext, code: DetailingProvisions, e: EndShear) -> None:
       "Vc + Vs" + (", capped at Vr,max" if e.capped else ""))
 
 
+_VALUE_KEYS = {end: (f"Vr_{end}_kN", f"Vc_{end}_kN", f"Vs_{end}_kN", f"dv_{end}_mm", f"shear_method_{end}")
+               for end in ENDS}
+
+
 def _shear(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: EndShear | str,
            vf: float | None) -> None:
     clause = ctx.code.clauses["shear_resistance"]
@@ -478,12 +487,13 @@ def _shear(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: EndShe
         _trace(ctx, code, e)
     vr = e.vr_k
     values = ctx.values
-    values[f"Vr_{e.end}_kN"] = vr
-    values[f"Vc_{e.end}_kN"] = e.vc_k
-    values[f"Vs_{e.end}_kN"] = e.vs_k
-    values[f"dv_{e.end}_mm"] = e.dv
+    vr_key, vc_key, vs_key, dv_key, method_key = _VALUE_KEYS[e.end]
+    values[vr_key] = vr
+    values[vc_key] = e.vc_k
+    values[vs_key] = e.vs_k
+    values[dv_key] = e.dv
     method = code.shear_rule(e.rule)[0]
-    values[f"shear_method_{e.end}"] = method
+    values[method_key] = method
     if e.u is None:
         ctx.add(CheckResult("shear", "Shear", loc, clause, CheckStatus.NOT_CHECKED,
                             f"Vf {WHERE[loc]} is not scheduled, so shear there was not checked (Vr = {vr:.1f} kN; "
