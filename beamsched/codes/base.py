@@ -11,6 +11,9 @@ from __future__ import annotations
 from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 
 @dataclass(frozen=True, slots=True)
 class StressBlock:
@@ -106,75 +109,111 @@ class DesignCode(ABC):
 
 @dataclass(frozen=True, slots=True)
 class ShearAngles:
-    """β and θ for one section, and why (the rule and clause that set them)."""
+    """β and θ for a column of sections (or one section: 0-d arrays), and the rule that set
+    them: the code's number for it, whose method, clause and words :meth:`DetailingProvisions.shear_rule`
+    and :meth:`DetailingProvisions.shear_basis` give. NaN where a value does not apply."""
 
-    beta: float
-    theta: float | None  # degrees; None where no θ is needed (no stirrups counted)
-    method: str  # "simplified", "general" or "special member"
-    basis: str  # words: the rule that set β
-    clause: str
-    sze: float | None = None  # equivalent crack spacing used (mm), where one was used
-    eps_x: float | None = None  # longitudinal strain at mid-depth (general method)
+    beta: NDArray[np.float64]
+    theta: NDArray[np.float64]  # degrees; NaN where no θ is needed
+    rule: NDArray[np.int64]
+    sze: NDArray[np.float64]  # equivalent crack spacing used (mm); NaN where none was used
+    eps_x: NDArray[np.float64]  # longitudinal strain at mid-depth (general method); NaN elsewhere
 
 
 class DetailingProvisions(ABC):
-    """Provisions beyond flexure. Every length in mm, stress MPa, force N, moment N·mm."""
+    """Provisions beyond flexure. Every length in mm, stress MPa, force N, moment N·mm.
+
+    The shear provisions work on columns: each argument a number or an array (one row a
+    section), each result an array of the same shape (0-d for numbers), every row worked out
+    on its own. The words that go with a decision (the method chosen, the rule that set β, why
+    minimum stirrups are required, the governing spacing limit) come from one section's values,
+    by methods that make the same decision with the same code."""
 
     # -- shear (sectional method) --------------------------------------------------------------
     @abstractmethod
-    def shear_depth(self, d: float, h: float) -> float:
+    def shear_depth(self, d: ArrayLike, h: ArrayLike) -> NDArray[np.float64]:
         """Effective shear depth dv."""
 
     @abstractmethod
-    def shear_root_fc(self, fc: float) -> float:
+    def shear_root_fc(self, fc: ArrayLike) -> NDArray[np.float64]:
         """√f'c as used for Vc (with any cap)."""
 
     @abstractmethod
-    def shear_simplified_applies(self, fc: float, fy: float, axial_tension: bool) -> tuple[bool, str]:
-        """Whether the simplified method may be used, and why (words)."""
+    def shear_simplified_applies(self, fc: ArrayLike, fy: ArrayLike, axial_tension: ArrayLike) -> NDArray[np.bool_]:
+        """Whether the simplified method may be used."""
 
     @abstractmethod
-    def shear_special_member(self, shape: str, h: float, hf: float | None, bw: float) -> str | None:
-        """Words naming the special member type that allows the fixed β, or None."""
+    def shear_method_words(self, fc: float, fy: float, axial_tension: bool) -> str:
+        """For one section: which method is used, and why (words)."""
+
+    @abstractmethod
+    def shear_special_member(self, shape: ArrayLike, h: ArrayLike, hf: ArrayLike, bw: ArrayLike) -> NDArray[np.bool_]:
+        """Whether the member is of a special type that allows the fixed β (``hf`` NaN or None
+        where there is no flange)."""
+
+    @abstractmethod
+    def shear_special_member_words(self, shape: str, h: float, hf: float | None, bw: float) -> str | None:
+        """For one section: words naming the special member type, or None."""
 
     @abstractmethod
     def shear_special(self) -> ShearAngles:
-        """β (and θ) for the special member types, without counted stirrups."""
+        """β (and its rule) for the special member types, without counted stirrups."""
 
     @abstractmethod
-    def shear_simplified(self, dv: float, agg: float, min_stirrups: bool) -> ShearAngles:
+    def shear_simplified(self, dv: ArrayLike, agg: ArrayLike, min_stirrups: ArrayLike) -> ShearAngles:
         """β and θ by the simplified method."""
 
     @abstractmethod
-    def shear_general_moment(self, mf: float, vf: float, dv: float) -> float:
+    def shear_general_moment(self, mf: ArrayLike, vf: ArrayLike, dv: ArrayLike) -> NDArray[np.float64]:
         """The moment to use in εx (the code's lower bound applied)."""
 
     @abstractmethod
-    def shear_general(self, eps_x: float, dv: float, agg: float, fc: float, min_stirrups: bool) -> ShearAngles:
+    def shear_general(self, eps_x: ArrayLike, dv: ArrayLike, agg: ArrayLike, fc: ArrayLike,
+                      min_stirrups: ArrayLike) -> ShearAngles:
         """β and θ by the general method, εx as computed (the code applies its own bounds)."""
+
+    @abstractmethod
+    def shear_rule(self, rule: int) -> tuple[str, str]:
+        """The method ("simplified", "general" or "special member") and the clause of a rule
+        number of :class:`ShearAngles`."""
+
+    @abstractmethod
+    def shear_basis(self, rule: int, agg: float, fc: float) -> str:
+        """For one section: words stating the rule that set β."""
 
     @abstractmethod
     def shear_crushing_factor(self) -> float:
         """k in Vr,max = k φc f'c bw dv."""
 
     @abstractmethod
-    def min_shear_reinforcement(self, fc: float, bw: float, s: float, fyt: float) -> float:
+    def min_shear_reinforcement(self, fc: ArrayLike, bw: ArrayLike, s: ArrayLike, fyt: ArrayLike) -> NDArray[np.float64]:
         """Av,min (mm²) for stirrups at spacing s."""
 
     @abstractmethod
-    def min_stirrups_reasons(self, vf: float | None, vc: float, h: float) -> list[str]:
-        """Why minimum stirrups are required at a section (empty: not required by these tests)."""
+    def min_stirrups_tests(self, vf: ArrayLike, vc: ArrayLike, h: ArrayLike) -> tuple[NDArray[np.bool_], ...]:
+        """Each test that requires minimum stirrups at a section, as a column of its outcome
+        (``vf`` NaN where not scheduled: that test is then not met)."""
 
     @abstractmethod
-    def high_shear_limit(self, lam: float, phi_c: float, fc: float, bw: float, dv: float) -> float:
+    def min_stirrups_reasons(self, vf: float | None, vc: float, h: float) -> list[str]:
+        """For one section: why minimum stirrups are required (empty: not required by these tests)."""
+
+    @abstractmethod
+    def high_shear_limit(self, lam: ArrayLike, phi_c: ArrayLike, fc: ArrayLike, bw: ArrayLike,
+                         dv: ArrayLike) -> NDArray[np.float64]:
         """The Vf above which the tighter stirrup spacing applies (N)."""
 
     @abstractmethod
-    def stirrup_spacing_limit(self, dv: float, high_shear: bool) -> tuple[float, str]:
-        """Largest stirrup spacing (mm) and the words of the governing limit."""
+    def stirrup_spacing_limit(self, dv: ArrayLike, high_shear: ArrayLike) -> tuple[NDArray[np.float64], NDArray[np.bool_]]:
+        """Largest stirrup spacing (mm), and where the limit in terms of dv governs (for
+        :meth:`stirrup_spacing_words`)."""
 
     @abstractmethod
-    def long_steel_vs_cap(self, vs: float, vf: float) -> float:
+    def stirrup_spacing_words(self, high_shear: bool, dv_governs: bool) -> str:
+        """The words of the governing spacing limit."""
+
+    @abstractmethod
+    def long_steel_vs_cap(self, vs: ArrayLike, vf: ArrayLike) -> NDArray[np.float64]:
         """The Vs that may be used in the longitudinal-steel equation."""
 
     # -- torsion -------------------------------------------------------------------------------

@@ -10,6 +10,9 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from .base import DetailingProvisions, ShearAngles
 
 DETAILING_CLAUSES = {
@@ -54,126 +57,187 @@ class CSAA23319Detailing(DetailingProvisions):
     CRUSHING = 0.25  # cl. 11.3.3
     H_MIN_STIRRUPS = 750.0  # cl. 11.2.8.1(b)
 
-    def shear_depth(self, d: float, h: float) -> float:
+    # the rules that set β, as numbered in ShearAngles.rule
+    SIMPLIFIED_MIN_STIRRUPS, SIMPLIFIED_DV, SIMPLIFIED_SZE, GENERAL_MIN_STIRRUPS, GENERAL, SPECIAL = range(6)
+
+    def shear_depth(self, d: ArrayLike, h: ArrayLike) -> NDArray[np.float64]:
         """cl. 2.3 (notation): dv, the greater of 0.9 d and 0.72 h."""
-        return max(0.9 * d, 0.72 * h)
+        return np.maximum(0.9 * np.asarray(d, dtype=float), 0.72 * np.asarray(h, dtype=float))
 
-    def shear_root_fc(self, fc: float) -> float:
+    def shear_root_fc(self, fc: ArrayLike) -> NDArray[np.float64]:
         """cl. 11.3.4: √f'c not taken greater than 8 MPa."""
-        return min(math.sqrt(fc), self.SQRT_FC_MAX)
+        return np.minimum(np.sqrt(np.asarray(fc, dtype=float)), self.SQRT_FC_MAX)
 
-    def shear_simplified_applies(self, fc: float, fy: float, axial_tension: bool) -> tuple[bool, str]:
+    def _simplified_excluded(self, fc: ArrayLike, fy: ArrayLike,
+                             axial_tension: ArrayLike) -> tuple[NDArray[np.bool_], NDArray[np.bool_], NDArray[np.bool_]]:
+        """cl. 11.3.6.3: what rules out the simplified method: f'c > 60 MPa, longitudinal
+        fy > 400 MPa; and (beamsched policy, conservative) axial tension, so that Nf enters εx."""
+        return (np.asarray(fc) > self.SIMPLIFIED_FC_MAX, np.asarray(fy) > self.SIMPLIFIED_FY_MAX,
+                np.asarray(axial_tension, dtype=bool))
+
+    def shear_simplified_applies(self, fc: ArrayLike, fy: ArrayLike, axial_tension: ArrayLike) -> NDArray[np.bool_]:
         """cl. 11.3.6.3: f'c ≤ 60 MPa and longitudinal fy ≤ 400 MPa. beamsched also takes the
         general method under axial tension, so that Nf enters εx (a policy, conservative)."""
+        high_fc, high_fy, tension = self._simplified_excluded(fc, fy, axial_tension)
+        return ~(high_fc | high_fy | tension)
+
+    def shear_method_words(self, fc: float, fy: float, axial_tension: bool) -> str:
+        """Why the method of :meth:`shear_simplified_applies` was chosen (cl. 11.3.6.3, 11.3.6.4)."""
+        high_fc, high_fy, tension = self._simplified_excluded(fc, fy, axial_tension)
         out = []
-        if fc > self.SIMPLIFIED_FC_MAX:
+        if high_fc:
             out.append(f"f'c = {fc:g} MPa > {self.SIMPLIFIED_FC_MAX:g} MPa")
-        if fy > self.SIMPLIFIED_FY_MAX:
+        if high_fy:
             out.append(f"fy = {fy:g} MPa > {self.SIMPLIFIED_FY_MAX:g} MPa")
-        if axial_tension:
+        if tension:
             out.append("axial tension (Nf must enter εx)")
         if out:
-            return False, "general method (cl. 11.3.6.4): " + ", ".join(out)
-        return True, (f"simplified method (cl. 11.3.6.3): f'c ≤ {self.SIMPLIFIED_FC_MAX:g} MPa, "
-                      f"fy ≤ {self.SIMPLIFIED_FY_MAX:g} MPa")
+            return "general method (cl. 11.3.6.4): " + ", ".join(out)
+        return (f"simplified method (cl. 11.3.6.3): f'c ≤ {self.SIMPLIFIED_FC_MAX:g} MPa, "
+                f"fy ≤ {self.SIMPLIFIED_FY_MAX:g} MPa")
 
-    def shear_special_member(self, shape: str, h: float, hf: float | None, bw: float) -> str | None:
+    def _special_member_tests(self, shape: ArrayLike, h: ArrayLike, hf: ArrayLike,
+                              bw: ArrayLike) -> tuple[NDArray[np.bool_], NDArray[np.bool_], NDArray, NDArray]:
+        """cl. 11.3.6.2 (from memory): (c) beams with h ≤ 250 mm; (e) beams cast integrally with
+        slabs whose depth below the slab is not more than half the web width or 350 mm. beamsched
+        reads (e) as the lesser of the two, the reading that admits fewer members. Slabs, footings
+        and joist construction (a, b, d) are not beams of a schedule. Returns (c), (e), the depth
+        below the slab and its limit."""
+        h = np.asarray(h, dtype=float)
+        hf = np.asarray(np.nan if hf is None else hf, dtype=float)
+        below = h - hf  # NaN without a flange: (e) is then not met
+        limit = np.minimum(0.5 * np.asarray(bw, dtype=float), 350.0)
+        flanged = np.isin(shape, ("T", "L"))
+        return h <= 250.0, flanged & (below <= limit), below, limit
+
+    def shear_special_member(self, shape: ArrayLike, h: ArrayLike, hf: ArrayLike, bw: ArrayLike) -> NDArray[np.bool_]:
         """cl. 11.3.6.2 (from memory): β = 0.21 for (c) beams with h ≤ 250 mm and (e) beams cast
-        integrally with slabs whose depth below the slab is not more than half the web width or
-        350 mm. beamsched reads (e) as the lesser of the two, the reading that admits fewer
-        members. Slabs, footings and joist construction (a, b, d) are not beams of a schedule."""
-        if h <= 250.0:
+        integrally with slabs (see :meth:`_special_member_tests`)."""
+        shallow, integral, _, _ = self._special_member_tests(shape, h, hf, bw)
+        return shallow | integral
+
+    def shear_special_member_words(self, shape: str, h: float, hf: float | None, bw: float) -> str | None:
+        """The special member type of cl. 11.3.6.2 that applies, in words, or None."""
+        shallow, integral, below, limit = self._special_member_tests(shape, h, hf, bw)
+        if shallow:
             return f"beam with h = {h:g} mm ≤ 250 mm (cl. 11.3.6.2)"
-        if shape in ("T", "L") and hf is not None:
-            below = h - hf
-            limit = min(0.5 * bw, 350.0)
-            if below <= limit:
-                return (f"beam cast integrally with a slab, depth below the slab {below:g} mm ≤ "
-                        f"{limit:g} mm = lesser of bw/2 and 350 mm (cl. 11.3.6.2)")
+        if integral:
+            return (f"beam cast integrally with a slab, depth below the slab {float(below):g} mm ≤ "
+                    f"{float(limit):g} mm = lesser of bw/2 and 350 mm (cl. 11.3.6.2)")
         return None
 
     def shear_special(self) -> ShearAngles:
-        return ShearAngles(self.BETA_SPECIAL, None, "special member", "β = 0.21 for the special member types",
-                           DETAILING_CLAUSES["shear_special"])
+        """cl. 11.3.6.2: β = 0.21 for the special member types."""
+        nan = np.array(np.nan)
+        return ShearAngles(np.array(self.BETA_SPECIAL), nan, np.array(self.SPECIAL), nan, nan)
 
-    def shear_simplified(self, dv: float, agg: float, min_stirrups: bool) -> ShearAngles:
+    def shear_simplified(self, dv: ArrayLike, agg: ArrayLike, min_stirrups: ArrayLike) -> ShearAngles:
         """cl. 11.3.6.3: (a) with at least minimum stirrups β = 0.18; (b) without, β = 230/(1000 + dv)
         for aggregate ≥ 20 mm; (c) for any aggregate, dv replaced by sze = 35 dv/(15 + ag). θ = 35°."""
-        cl = DETAILING_CLAUSES["shear_simplified"]
-        if min_stirrups:
-            return ShearAngles(self.BETA_MIN_STIRRUPS, self.THETA_SIMPLIFIED, "simplified",
-                               "β = 0.18 with at least the minimum stirrups", cl)
-        if agg >= self.AGG_SIZE_EFFECT:
-            return ShearAngles(230.0 / (1000.0 + dv), self.THETA_SIMPLIFIED, "simplified",
-                               f"β = 230/(1000 + dv), aggregate {agg:g} mm ≥ 20 mm", cl, sze=dv)
-        sze = 35.0 * dv / (15.0 + agg)
-        return ShearAngles(230.0 / (1000.0 + sze), self.THETA_SIMPLIFIED, "simplified",
-                           f"β = 230/(1000 + sze), sze = 35 dv/(15 + ag), aggregate {agg:g} mm < 20 mm", cl, sze=sze)
+        dv, agg = np.asarray(dv, dtype=float), np.asarray(agg, dtype=float)
+        rule = np.where(min_stirrups, self.SIMPLIFIED_MIN_STIRRUPS,
+                        np.where(agg >= self.AGG_SIZE_EFFECT, self.SIMPLIFIED_DV, self.SIMPLIFIED_SZE))
+        sze = np.where(rule == self.SIMPLIFIED_DV, dv, 35.0 * dv / (15.0 + agg))
+        sze = np.where(rule == self.SIMPLIFIED_MIN_STIRRUPS, np.nan, sze)
+        beta = np.where(rule == self.SIMPLIFIED_MIN_STIRRUPS, self.BETA_MIN_STIRRUPS, 230.0 / (1000.0 + sze))
+        return ShearAngles(beta, np.full(beta.shape, self.THETA_SIMPLIFIED), rule, sze, np.full(beta.shape, np.nan))
 
-    def shear_general_moment(self, mf: float, vf: float, dv: float) -> float:
+    def shear_general_moment(self, mf: ArrayLike, vf: ArrayLike, dv: ArrayLike) -> NDArray[np.float64]:
         """cl. 11.3.6.4: Mf in εx not taken less than (Vf − Vp) dv (Vp = 0: no prestress)."""
-        return max(mf, vf * dv)
+        mf, floor = np.asarray(mf, dtype=float), np.asarray(vf, dtype=float) * dv
+        return np.where(floor > mf, floor, mf)  # Mf where equal, as a scheduled −0.0 stays
 
-    def _ag_effective(self, agg: float, fc: float) -> float:
+    def _ag_effective(self, agg: ArrayLike, fc: ArrayLike) -> NDArray[np.float64]:
         """cl. 11.3.6.4 (from memory): ag taken as zero for f'c > 70 MPa and reduced linearly to
         zero from f'c = 60 to 70 MPa."""
-        if fc <= 60.0:
-            return agg
-        if fc >= 70.0:
-            return 0.0
-        return agg * (70.0 - fc) / 10.0
+        agg, fc = np.asarray(agg, dtype=float), np.asarray(fc, dtype=float)
+        return np.where(fc <= 60.0, agg, np.where(fc >= 70.0, 0.0, agg * (70.0 - fc) / 10.0))
 
-    def shear_general(self, eps_x: float, dv: float, agg: float, fc: float, min_stirrups: bool) -> ShearAngles:
+    def shear_general(self, eps_x: ArrayLike, dv: ArrayLike, agg: ArrayLike, fc: ArrayLike,
+                      min_stirrups: ArrayLike) -> ShearAngles:
         """cl. 11.3.6.4: β = 0.40/(1 + 1500 εx) · 1300/(1000 + sze), θ = 29 + 7000 εx; εx taken as
         zero when negative (the conservative option) and not more than 3.0e-3; sze = 300 mm with at
         least minimum stirrups, else 35 sz/(15 + ag) ≥ 0.85 sz with sz = dv."""
-        cl = DETAILING_CLAUSES["shear_general"]
-        eps = min(max(eps_x, 0.0), self.EPS_X_MAX)
-        if min_stirrups:
-            sze, words = self.SZE_MIN_STIRRUPS, "sze = 300 mm (at least minimum stirrups)"
-        else:
-            ag = self._ag_effective(agg, fc)
-            sze = max(35.0 * dv / (15.0 + ag), 0.85 * dv)
-            words = f"sze = 35 dv/(15 + ag) ≥ 0.85 dv with ag = {ag:g} mm"
+        dv = np.asarray(dv, dtype=float)
+        eps = np.minimum(np.maximum(np.asarray(eps_x, dtype=float), 0.0), self.EPS_X_MAX)
+        ag = self._ag_effective(agg, fc)
+        sze = np.where(min_stirrups, self.SZE_MIN_STIRRUPS, np.maximum(35.0 * dv / (15.0 + ag), 0.85 * dv))
         beta = 0.40 / (1.0 + 1500.0 * eps) * 1300.0 / (1000.0 + sze)
         theta = 29.0 + 7000.0 * eps
-        return ShearAngles(beta, theta, "general", f"β = 0.40/(1 + 1500 εx) · 1300/(1000 + sze), {words}", cl,
-                           sze=sze, eps_x=eps)
+        rule = np.where(min_stirrups, self.GENERAL_MIN_STIRRUPS, self.GENERAL)
+        return ShearAngles(*np.broadcast_arrays(beta, theta, rule, sze, eps))
+
+    def shear_rule(self, rule: int) -> tuple[str, str]:
+        """The method and clause of each rule: cl. 11.3.6.3, 11.3.6.4, 11.3.6.2."""
+        if rule == self.SPECIAL:
+            return "special member", DETAILING_CLAUSES["shear_special"]
+        if rule in (self.GENERAL_MIN_STIRRUPS, self.GENERAL):
+            return "general", DETAILING_CLAUSES["shear_general"]
+        return "simplified", DETAILING_CLAUSES["shear_simplified"]
+
+    def shear_basis(self, rule: int, agg: float, fc: float) -> str:
+        """The words of each rule that sets β (cl. 11.3.6.2, 11.3.6.3, 11.3.6.4)."""
+        if rule == self.SPECIAL:
+            return "β = 0.21 for the special member types"
+        if rule == self.SIMPLIFIED_MIN_STIRRUPS:
+            return "β = 0.18 with at least the minimum stirrups"
+        if rule == self.SIMPLIFIED_DV:
+            return f"β = 230/(1000 + dv), aggregate {agg:g} mm ≥ 20 mm"
+        if rule == self.SIMPLIFIED_SZE:
+            return f"β = 230/(1000 + sze), sze = 35 dv/(15 + ag), aggregate {agg:g} mm < 20 mm"
+        if rule == self.GENERAL_MIN_STIRRUPS:
+            words = "sze = 300 mm (at least minimum stirrups)"
+        else:
+            words = f"sze = 35 dv/(15 + ag) ≥ 0.85 dv with ag = {float(self._ag_effective(agg, fc)):g} mm"
+        return f"β = 0.40/(1 + 1500 εx) · 1300/(1000 + sze), {words}"
 
     def shear_crushing_factor(self) -> float:
         """cl. 11.3.3: Vr ≤ 0.25 φc f'c bw dv (+ Vp)."""
         return self.CRUSHING
 
-    def min_shear_reinforcement(self, fc: float, bw: float, s: float, fyt: float) -> float:
+    def min_shear_reinforcement(self, fc: ArrayLike, bw: ArrayLike, s: ArrayLike, fyt: ArrayLike) -> NDArray[np.float64]:
         """cl. 11.2.8.2, Eq. 11.1: Av,min = 0.06 √f'c bw s / fyt."""
-        return 0.06 * math.sqrt(fc) * bw * s / fyt
+        return 0.06 * np.sqrt(np.asarray(fc, dtype=float)) * bw * s / fyt
 
-    def min_stirrups_reasons(self, vf: float | None, vc: float, h: float) -> list[str]:
+    def min_stirrups_tests(self, vf: ArrayLike, vc: ArrayLike, h: ArrayLike) -> tuple[NDArray[np.bool_], ...]:
         """cl. 11.2.8.1: (a) where Vf > Vc; (b) beams with h > 750 mm; (c) where Tf > 0.25 Tcr
         (torsion above the threshold makes the span incomplete, see the torsion check)."""
+        return vf > vc, h > self.H_MIN_STIRRUPS  # type: ignore[operator]  (numbers or arrays alike)
+
+    def min_stirrups_reasons(self, vf: float | None, vc: float, h: float) -> list[str]:
+        """The tests of :meth:`min_stirrups_tests` that are met, in words (cl. 11.2.8.1)."""
+        over_vc, deep = self.min_stirrups_tests(np.nan if vf is None else vf, vc, h)
         out = []
-        if vf is not None and vf > vc:
-            out.append(f"Vf = {vf / 1e3:.1f} kN > Vc = {vc / 1e3:.1f} kN (cl. 11.2.8.1(a))")
-        if h > self.H_MIN_STIRRUPS:
+        if over_vc:
+            out.append(f"Vf = {vf / 1e3:.1f} kN > Vc = {vc / 1e3:.1f} kN (cl. 11.2.8.1(a))")  # type: ignore[operator]
+        if deep:
             out.append(f"h = {h:g} mm > 750 mm (cl. 11.2.8.1(b))")
         return out
 
-    def high_shear_limit(self, lam: float, phi_c: float, fc: float, bw: float, dv: float) -> float:
+    def high_shear_limit(self, lam: ArrayLike, phi_c: ArrayLike, fc: ArrayLike, bw: ArrayLike,
+                         dv: ArrayLike) -> NDArray[np.float64]:
         """cl. 11.3.8.3: the spacing limits halve where Vf > 0.125 λ φc f'c bw dv."""
-        return 0.125 * lam * phi_c * fc * bw * dv
+        return 0.125 * np.asarray(lam, dtype=float) * phi_c * fc * bw * dv
 
-    def stirrup_spacing_limit(self, dv: float, high_shear: bool) -> tuple[float, str]:
+    def _spacing_factor(self, high_shear: ArrayLike) -> NDArray[np.float64]:
+        """cl. 11.3.8.3: the limits of cl. 11.3.8.1 are halved at high shear."""
+        return np.where(high_shear, 0.5, 1.0)
+
+    def stirrup_spacing_limit(self, dv: ArrayLike, high_shear: ArrayLike) -> tuple[NDArray[np.float64], NDArray[np.bool_]]:
         """cl. 11.3.8.1: s ≤ 0.7 dv and ≤ 600 mm; cl. 11.3.8.3: half those at high shear."""
-        k = 0.5 if high_shear else 1.0
+        k = self._spacing_factor(high_shear)
         a, b = 0.7 * k * dv, 600.0 * k
-        if a <= b:
-            return a, f"{0.7 * k:g} dv"
-        return b, f"{600 * k:g} mm"
+        return np.where(a <= b, a, b), a <= b
 
-    def long_steel_vs_cap(self, vs: float, vf: float) -> float:
+    def stirrup_spacing_words(self, high_shear: bool, dv_governs: bool) -> str:
+        """The limit of :meth:`stirrup_spacing_limit` that governs, in words."""
+        k = float(self._spacing_factor(high_shear))
+        return f"{0.7 * k:g} dv" if dv_governs else f"{600 * k:g} mm"
+
+    def long_steel_vs_cap(self, vs: ArrayLike, vf: ArrayLike) -> NDArray[np.float64]:
         """cl. 11.3.9: beamsched does not take Vs greater than Vf in (Vf − 0.5 Vs) cot θ, so the
         shear term never falls below 0.5 Vf cot θ (from memory; conservative)."""
-        return min(vs, vf)
+        return np.minimum(vs, vf)
 
     # -- torsion ---------------------------------------------------------------------------------
     def torsion_cracking(self, acp: float, pc: float, lam: float, phi_c: float, fc: float) -> float:

@@ -4,12 +4,19 @@ Small pure functions; every argument in engine units (mm, MPa, N, N·mm) and eve
 (β, θ, φ, limits) passed in by the caller, who takes them from the design code. The sectional
 shear model is the one of the modified compression field theory as codified (concrete term
 β √f'c bw dv, stirrup term Av fyt dv cot θ / s, crushing cap k φc f'c bw dv).
+
+The shear functions work on columns: each argument a number or an array (one row a section),
+each row worked out on its own with the same operations in the same order, so a section's
+numbers do not depend on the sections worked out with it.
 """
 
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
     "concrete_shear",
@@ -19,54 +26,74 @@ __all__ = [
     "ShearResistance",
     "strain_eps_x",
     "longitudinal_tension",
+    "tan_degrees",
     "corner_bar_offset",
     "bars_per_layer",
     "LayerFit",
 ]
 
 
-def concrete_shear(phi_c: float, lam: float, beta: float, root_fc: float, bw: float, dv: float) -> float:
+def tan_degrees(theta_deg: ArrayLike) -> NDArray[np.float64]:
+    """tan θ of each θ in degrees, as ``math.tan(math.radians(θ))``: numpy's own tangent may
+    differ from it in the last bit, and a section must give the same numbers whether it is
+    worked out alone or in a column. Worked out once per distinct θ (few: θ = 35° for every
+    section of the simplified method)."""
+    theta = np.asarray(theta_deg, dtype=float)
+    distinct, where = np.unique(theta, return_inverse=True)
+    tan = np.array([math.tan(math.radians(t)) for t in distinct.tolist()])
+    return tan[where].reshape(theta.shape)
+
+
+def concrete_shear(phi_c: ArrayLike, lam: ArrayLike, beta: ArrayLike, root_fc: ArrayLike, bw: ArrayLike,
+                   dv: ArrayLike) -> NDArray[np.float64]:
     """Vc = φc λ β √f'c bw dv (N); ``root_fc`` is √f'c with any cap already applied."""
-    return phi_c * lam * beta * root_fc * bw * dv
+    return np.asarray(phi_c, dtype=float) * lam * beta * root_fc * bw * dv
 
 
-def stirrup_shear(phi_s: float, av: float, fyt: float, dv: float, theta_deg: float, s: float) -> float:
+def stirrup_shear(phi_s: ArrayLike, av: ArrayLike, fyt: ArrayLike, dv: ArrayLike, theta_deg: ArrayLike,
+                  s: ArrayLike) -> NDArray[np.float64]:
     """Vs = φs Av fyt dv cot θ / s (N), stirrups perpendicular to the member axis."""
-    return phi_s * av * fyt * dv / math.tan(math.radians(theta_deg)) / s
+    return np.asarray(phi_s, dtype=float) * av * fyt * dv / tan_degrees(theta_deg) / s
 
 
-def crushing_limit(k: float, phi_c: float, fc: float, bw: float, dv: float) -> float:
+def crushing_limit(k: ArrayLike, phi_c: ArrayLike, fc: ArrayLike, bw: ArrayLike, dv: ArrayLike) -> NDArray[np.float64]:
     """Vr,max = k φc f'c bw dv (N)."""
-    return k * phi_c * fc * bw * dv
+    return np.asarray(k, dtype=float) * phi_c * fc * bw * dv
 
 
 @dataclass(frozen=True, slots=True)
 class ShearResistance:
-    vc: float
-    vs: float
-    vr_max: float
-    vr: float  # min(vc + vs, vr_max)
-    capped: bool  # True where the crushing limit governs
+    vc: NDArray[np.float64]
+    vs: NDArray[np.float64]
+    vr_max: NDArray[np.float64]
+    vr: NDArray[np.float64]  # min(vc + vs, vr_max)
+    capped: NDArray[np.bool_]  # True where the crushing limit governs
 
 
-def shear_resistance(vc: float, vs: float, vr_max: float) -> ShearResistance:
+def shear_resistance(vc: ArrayLike, vs: ArrayLike, vr_max: ArrayLike) -> ShearResistance:
     """Vr = Vc + Vs, not more than the crushing limit."""
+    vc, vs, vr_max = np.asarray(vc, dtype=float), np.asarray(vs, dtype=float), np.asarray(vr_max, dtype=float)
     total = vc + vs
-    return ShearResistance(vc, vs, vr_max, min(total, vr_max), total > vr_max)
+    return ShearResistance(vc, vs, vr_max, np.minimum(total, vr_max), total > vr_max)
 
 
-def strain_eps_x(mf: float, vf: float, nf: float, dv: float, es: float, as_: float) -> float:
+def strain_eps_x(mf: ArrayLike, vf: ArrayLike, nf: ArrayLike, dv: ArrayLike, es: ArrayLike,
+                 as_: ArrayLike) -> NDArray[np.float64]:
     """εx = (Mf/dv + Vf + 0.5 Nf) / (2 Es As): longitudinal strain at mid-depth, non-prestressed,
-    Nf positive in tension. The caller applies the code's floor on Mf and its bounds on εx."""
-    if as_ <= 0:
-        return math.inf
-    return (mf / dv + vf + 0.5 * nf) / (2.0 * es * as_)
+    Nf positive in tension (infinite without tension steel). The caller applies the code's floor
+    on Mf and its bounds on εx."""
+    as_ = np.asarray(as_, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        eps = (np.asarray(mf, dtype=float) / dv + vf + 0.5 * np.asarray(nf, dtype=float)) / (2.0 * np.asarray(es, dtype=float) * as_)
+    return np.where(as_ > 0, eps, math.inf)
 
 
-def longitudinal_tension(mf: float, vf: float, vs: float, nf: float, dv: float, theta_deg: float) -> float:
+def longitudinal_tension(mf: ArrayLike, vf: ArrayLike, vs: ArrayLike, nf: ArrayLike, dv: ArrayLike,
+                         theta_deg: ArrayLike) -> NDArray[np.float64]:
     """Ft = Mf/dv + 0.5 Nf + (Vf − 0.5 Vs) cot θ (N): the tension the flexural tension steel
     must carry where shear and moment act together (Nf positive in tension)."""
-    return mf / dv + 0.5 * nf + (vf - 0.5 * vs) / math.tan(math.radians(theta_deg))
+    return (np.asarray(mf, dtype=float) / dv + 0.5 * np.asarray(nf, dtype=float)
+            + (np.asarray(vf, dtype=float) - 0.5 * np.asarray(vs, dtype=float)) / tan_degrees(theta_deg))
 
 
 def corner_bar_offset(db: float, bend_inside_diameter: float) -> float:
