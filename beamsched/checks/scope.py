@@ -22,7 +22,7 @@ SFRS reminder is required=False.
 from __future__ import annotations
 
 from ..codes.base import DetailingProvisions
-from ..model import CheckResult, CheckStatus
+from ..model import CheckStatus
 from .context import N_PER_KN, FlexureCase, SpanContext
 from .shear import vf_at
 
@@ -100,34 +100,34 @@ def _deep(ctx: SpanContext, code: DetailingProvisions) -> None:
                        + " and ".join(deep_ends) + f": design by strut-and-tie (cl. {c_ss}); sectional shear does not "
                        "check its ties, nodes and anchorage")
     if reasons:
-        ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
-                            "Outside sectional design: " + "; ".join(reasons) + ". beamsched does not check it."))
+        ctx.result("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
+                   "Outside sectional design: " + "; ".join(reasons) + ". beamsched does not check it.")
     elif reasons_unknown:
-        ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
-                            "Whether this is a deep flexural member is unknown: " + "; ".join(reasons_unknown) + "."))
+        ctx.result("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
+                   "Whether this is a deep flexural member is unknown: " + "; ".join(reasons_unknown) + ".")
     elif ln is None:
-        ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
-                            f"Whether this is a deep flexural member (cl. {c_deep}) is unknown: no span length is "
-                            "scheduled."))
+        ctx.result("scope_deep", "Scope: deep member", None, clause, CheckStatus.NOT_CHECKED,
+                   f"Whether this is a deep flexural member (cl. {c_deep}) is unknown: no span length is "
+                   "scheduled.")
     else:
-        ctx.add(CheckResult("scope_deep", "Scope: deep member", None, clause, CheckStatus.PASS,
-                            "not a deep member: " + ", ".join(made)))
+        ctx.result("scope_deep", "Scope: deep member", None, clause, CheckStatus.PASS,
+                   "not a deep member: " + ", ".join(made))
 
 
 def _seismic(ctx: SpanContext) -> None:
     clause = ctx.code.clauses["sfrs"]
     sfrs = ctx.inp.sfrs
     if sfrs:
-        ctx.add(CheckResult("scope_seismic", "Scope: SFRS", None, clause, CheckStatus.NOT_CHECKED,
-                            f"SFRS = yes: members of the seismic force-resisting system are designed to Clause {clause} "
-                            "(capacity design, ductile detailing), which beamsched does not cover."))
+        ctx.result("scope_seismic", "Scope: SFRS", None, clause, CheckStatus.NOT_CHECKED,
+                   f"SFRS = yes: members of the seismic force-resisting system are designed to Clause {clause} "
+                   "(capacity design, ductile detailing), which beamsched does not cover.")
     elif sfrs is None:
-        ctx.add(CheckResult("scope_seismic", "Scope: SFRS", None, clause, CheckStatus.NOT_CHECKED,
-                            f"Reminder: SFRS is not stated; checked as a gravity member. If it is part of the seismic "
-                            f"force-resisting system, Clause {clause} applies and is not covered.", required=False))
+        ctx.result("scope_seismic", "Scope: SFRS", None, clause, CheckStatus.NOT_CHECKED,
+                   f"Reminder: SFRS is not stated; checked as a gravity member. If it is part of the seismic "
+                   f"force-resisting system, Clause {clause} applies and is not covered.", required=False)
     else:
-        ctx.add(CheckResult("scope_seismic", "Scope: SFRS", None, clause, CheckStatus.PASS,
-                            "not part of the seismic force-resisting system (as scheduled)"))
+        ctx.result("scope_seismic", "Scope: SFRS", None, clause, CheckStatus.PASS,
+                   "not part of the seismic force-resisting system (as scheduled)")
 
 
 def _axial(ctx: SpanContext, code: DetailingProvisions) -> None:
@@ -142,21 +142,21 @@ def _axial(ctx: SpanContext, code: DetailingProvisions) -> None:
     t("scope_axial", None, "Pf", inp.Pf / N_PER_KN, "kN", clause, "compression positive")
     pf_k = inp.Pf / N_PER_KN
     if inp.Pf > limit:
-        ctx.add(CheckResult("scope_axial", "Scope: axial load", None, clause, CheckStatus.NOT_CHECKED,
-                            f"Pf = {pf_k:.1f} kN compression exceeds 0.1 f'c Ag = {limit / N_PER_KN:.1f} kN: design it as "
-                            "a beam-column (flexure with axial load, slenderness); beamsched checks beams only.",
-                            # against the scope limit, not a resistance: no utilisation (see torsion)
-                            demand=pf_k, capacity=limit / N_PER_KN, unit="kN"))
+        ctx.result("scope_axial", "Scope: axial load", None, clause, CheckStatus.NOT_CHECKED,
+                   f"Pf = {pf_k:.1f} kN compression exceeds 0.1 f'c Ag = {limit / N_PER_KN:.1f} kN: design it as "
+                   "a beam-column (flexure with axial load, slenderness); beamsched checks beams only.",
+                   # against the scope limit, not a resistance: no utilisation (see torsion)
+                   demand=pf_k, capacity=limit / N_PER_KN, unit="kN")
     elif inp.Pf < 0:
-        ctx.add(CheckResult("scope_axial", "Scope: axial load", None, clause, CheckStatus.NOT_CHECKED,
-                            f"Pf = {-pf_k:.1f} kN tension: the flexural checks ignore axial force, and tension lowers "
-                            "Mr; design for flexure with axial tension (the shear checks include Nf).",
-                            demand=pf_k, unit="kN"))
+        ctx.result("scope_axial", "Scope: axial load", None, clause, CheckStatus.NOT_CHECKED,
+                   f"Pf = {-pf_k:.1f} kN tension: the flexural checks ignore axial force, and tension lowers "
+                   "Mr; design for flexure with axial tension (the shear checks include Nf).",
+                   demand=pf_k, unit="kN")
     else:
-        ctx.add(CheckResult("scope_axial", "Scope: axial load", None, clause, CheckStatus.PASS,
-                            f"Pf = {pf_k:.1f} kN ≤ 0.1 f'c Ag: checked as a beam; Pf is ignored in flexure and shear "
-                            "(compression, conservative there)", demand=pf_k, capacity=limit / N_PER_KN, unit="kN",
-                            utilisation=max(inp.Pf, 0.0) / limit))
+        ctx.result("scope_axial", "Scope: axial load", None, clause, CheckStatus.PASS,
+                   f"Pf = {pf_k:.1f} kN ≤ 0.1 f'c Ag: checked as a beam; Pf is ignored in flexure and shear "
+                   "(compression, conservative there)", demand=pf_k, capacity=limit / N_PER_KN, unit="kN",
+                   utilisation=max(inp.Pf, 0.0) / limit)
 
 
 def run(ctx: SpanContext) -> None:

@@ -24,7 +24,7 @@ Policy (``required``): both are required; min_depth with no span length is ``not
 from __future__ import annotations
 
 from ..codes.base import DetailingProvisions
-from ..model import CheckResult, CheckStatus, Location
+from ..model import CheckStatus, Location
 from ..section import Rect, centroid_depth
 from .context import NMM_PER_KNM, Sense, SpanContext
 from .flexure import cases
@@ -76,8 +76,8 @@ def _crack(ctx: SpanContext, code: DetailingProvisions, sense: Sense, loc: Locat
     tension, _, name = ctx.bars_for(sense, loc)
     face = "bottom" if sense == "pos" else "top"
     if tension is None:
-        ctx.add(CheckResult("crack_control", "Crack control", loc, clause, CheckStatus.NOT_CHECKED,
-                            f"Crack control {WHERE[loc]} not checked: no {name} scheduled (cl. {clause}).", unit="N/mm"))
+        ctx.result("crack_control", "Crack control", loc, clause, CheckStatus.NOT_CHECKED,
+                   f"Crack control {WHERE[loc]} not checked: no {name} scheduled (cl. {clause}).", unit="N/mm")
         return
     placed = ctx.place(tension, face, tension=True)
     cover_face = inp.cover_top if face == "top" else inp.cover_bottom
@@ -126,15 +126,15 @@ def _crack(ctx: SpanContext, code: DetailingProvisions, sense: Sense, loc: Locat
     t("crack_control", loc, "z limit", limit, "N/mm", clause, f"{inp.exposure} exposure")
     u = z / limit
     if u <= 1:
-        ctx.add(CheckResult("crack_control", "Crack control", loc, clause, CheckStatus.PASS, "",
-                            demand=z, capacity=limit, unit="N/mm", utilisation=u))
+        ctx.result("crack_control", "Crack control", loc, clause, CheckStatus.PASS, "",
+                   demand=z, capacity=limit, unit="N/mm", utilisation=u)
         return
-    ctx.add(CheckResult(
+    ctx.result(
         "crack_control", "Crack control", loc, clause, CheckStatus.FAIL,
         f"z = {z:.0f} N/mm exceeds {limit:.0f} N/mm ({inp.exposure} exposure) {WHERE[loc]} for the {name} "
         f"(cl. {clause}, {fs_words}): use more, smaller bars (the same area in more bars) or reduce the cover"
         + ("" if ms is not None else ", or schedule the service moment so fs is computed") + ".",
-        demand=z, capacity=limit, unit="N/mm", utilisation=u))
+        demand=z, capacity=limit, unit="N/mm", utilisation=u)
 
 
 def _min_depth(ctx: SpanContext, code: DetailingProvisions) -> None:
@@ -147,9 +147,9 @@ def _min_depth(ctx: SpanContext, code: DetailingProvisions) -> None:
     elif inp.span is not None:
         ln, ln_words = inp.span, "centre-to-centre span (no clear span scheduled; longer, conservative)"
     else:
-        ctx.add(CheckResult("min_depth", "Min. depth", None, clause, CheckStatus.NOT_CHECKED,
-                            f"Minimum depth for deflection (cl. {clause}, Table 9.2) not checked: no span length is "
-                            "scheduled.", unit="mm"))
+        ctx.result("min_depth", "Min. depth", None, clause, CheckStatus.NOT_CHECKED,
+                   f"Minimum depth for deflection (cl. {clause}, Table 9.2) not checked: no span length is "
+                   "scheduled.", unit="mm")
         return
     div, ends = code.min_depth_divisor(inp.left_end, inp.right_end)
     kfy = code.min_depth_fy_factor(inp.fy)
@@ -164,16 +164,16 @@ def _min_depth(ctx: SpanContext, code: DetailingProvisions) -> None:
     t("min_depth", None, "h,min", hmin, "mm", clause, "ℓn / divisor × factors")
     u = hmin / inp.h
     if u <= 1:
-        ctx.add(CheckResult("min_depth", "Min. depth", None, clause, CheckStatus.PASS,
-                            f"h = {inp.h:g} mm ≥ h,min = {hmin:.0f} mm ({ends}): no deflection calculation is required "
-                            f"by cl. {clause}. {caveat}. This is not a statement that deflections are acceptable.",
-                            demand=hmin, capacity=inp.h, unit="mm", utilisation=u))
+        ctx.result("min_depth", "Min. depth", None, clause, CheckStatus.PASS,
+                   f"h = {inp.h:g} mm ≥ h,min = {hmin:.0f} mm ({ends}): no deflection calculation is required "
+                   f"by cl. {clause}. {caveat}. This is not a statement that deflections are acceptable.",
+                   demand=hmin, capacity=inp.h, unit="mm", utilisation=u)
         return
-    ctx.add(CheckResult("min_depth", "Min. depth", None, clause, CheckStatus.NOT_CHECKED,
-                        f"h = {inp.h:g} mm is less than h,min = ℓn/{div:g} × {kfy:.3f} × {kd:.2f} = {hmin:.0f} mm "
-                        f"({ends}, cl. {clause}, Table 9.2): a deflection calculation is needed (beamsched does not "
-                        f"make one), or deepen the member. {caveat}.",
-                        demand=hmin, capacity=inp.h, unit="mm", utilisation=u))
+    ctx.result("min_depth", "Min. depth", None, clause, CheckStatus.NOT_CHECKED,
+               f"h = {inp.h:g} mm is less than h,min = ℓn/{div:g} × {kfy:.3f} × {kd:.2f} = {hmin:.0f} mm "
+               f"({ends}, cl. {clause}, Table 9.2): a deflection calculation is needed (beamsched does not "
+               f"make one), or deepen the member. {caveat}.",
+               demand=hmin, capacity=inp.h, unit="mm", utilisation=u)
 
 
 def run(ctx: SpanContext) -> None:
@@ -187,6 +187,6 @@ def run(ctx: SpanContext) -> None:
                 _crack(ctx, code, sense, loc)
     else:
         clause = ctx.code.clauses["crack_control"]
-        ctx.add(CheckResult("crack_control", "Crack control", None, clause, CheckStatus.PASS,
-                            f"fy = {inp.fy:g} MPa ≤ 300 MPa: the z limit of cl. {clause} does not apply."))
+        ctx.result("crack_control", "Crack control", None, clause, CheckStatus.PASS,
+                   f"fy = {inp.fy:g} MPa ≤ 300 MPa: the z limit of cl. {clause} does not apply.")
     _min_depth(ctx, code)

@@ -37,7 +37,7 @@ import numpy as np
 
 from ..bars import BarArrangement
 from ..codes.base import DetailingProvisions
-from ..model import CheckResult, CheckStatus, Location
+from ..model import CheckStatus, Location
 from ..section import centroid_depth
 from ..solve.shear import (
     concrete_shear,
@@ -480,8 +480,8 @@ def _shear(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: EndShe
     clause = ctx.code.clauses["shear_resistance"]
     vf_k = None if vf is None else vf / N_PER_KN
     if isinstance(e, str):
-        ctx.add(CheckResult("shear", "Shear", loc, clause, CheckStatus.NOT_CHECKED,
-                            f"Shear {WHERE[loc]} not checked: {e} (cl. {clause}).", demand=vf_k, unit="kN"))
+        ctx.result("shear", "Shear", loc, clause, CheckStatus.NOT_CHECKED,
+                   f"Shear {WHERE[loc]} not checked: {e} (cl. {clause}).", demand=vf_k, unit="kN")
         return
     if ctx.tracing:
         _trace(ctx, code, e)
@@ -495,9 +495,9 @@ def _shear(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: EndShe
     method = code.shear_rule(e.rule)[0]
     values[method_key] = method
     if e.u is None:
-        ctx.add(CheckResult("shear", "Shear", loc, clause, CheckStatus.NOT_CHECKED,
-                            f"Vf {WHERE[loc]} is not scheduled, so shear there was not checked (Vr = {vr:.1f} kN; "
-                            f"cl. {clause}). A blank demand is never read as zero.", capacity=vr, unit="kN"))
+        ctx.result("shear", "Shear", loc, clause, CheckStatus.NOT_CHECKED,
+                   f"Vf {WHERE[loc]} is not scheduled, so shear there was not checked (Vr = {vr:.1f} kN; "
+                   f"cl. {clause}). A blank demand is never read as zero.", capacity=vr, unit="kN")
         return
     u = e.u
     msg = ""
@@ -519,8 +519,8 @@ def _shear(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: EndShe
                 fix = "close up or enlarge the stirrups, or enlarge the section"
             msg = (f"Vf = {vf_k:.1f} kN exceeds Vr = {vr:.1f} kN {WHERE[loc]} ({method} method, cl. {clause}): "
                    f"{fix}." + ("" if not notes else " " + "; ".join(notes) + "."))
-    ctx.add(CheckResult("shear", "Shear", loc, clause, CheckStatus.PASS if u <= 1 else CheckStatus.FAIL, msg,
-                        demand=vf_k, capacity=vr, unit="kN", utilisation=u))
+    ctx.result("shear", "Shear", loc, clause, CheckStatus.PASS if u <= 1 else CheckStatus.FAIL, msg,
+               demand=vf_k, capacity=vr, unit="kN", utilisation=u)
 
 
 def _min_stirrups(ctx: SpanContext, code: DetailingProvisions, loc: Location, span: SpanShear,
@@ -546,36 +546,36 @@ def _min_stirrups(ctx: SpanContext, code: DetailingProvisions, loc: Location, sp
         known = vf is not None and solved  # Vf and Vc both known: (a) can be decided
         if not known and not satisfied:
             why = e if isinstance(e, str) else "Vf is not scheduled"
-            ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.NOT_CHECKED,
-                                f"Whether minimum stirrups are required {WHERE[loc]} is unknown: {why} "
-                                f"(cl. {cl}: required where Vf > Vc).", unit="mm²"))
+            ctx.result("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.NOT_CHECKED,
+                       f"Whether minimum stirrups are required {WHERE[loc]} is unknown: {why} "
+                       f"(cl. {cl}: required where Vf > Vc).", unit="mm²")
             return
         msg = (f"Minimum stirrups are not required {WHERE[loc]} (cl. {cl}): Vf ≤ Vc and h ≤ 750 mm"
                if known else f"Av ≥ Av,min {WHERE[loc]} (cl. {cl_a}), whether or not they are required")
-        ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.PASS, msg,
-                            demand=av_min, capacity=st.area if st else None, unit="mm²"))
+        ctx.result("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.PASS, msg,
+                   demand=av_min, capacity=st.area if st else None, unit="mm²")
         return
     reasons = "; ".join(code.min_stirrups_reasons(vf, e.vc0 if solved else math.inf, inp.h))  # type: ignore[union-attr]
     if ctx.tracing:
         ctx.add_trace("min_stirrups", loc, "required", reasons, "", cl, "why minimum stirrups are required")
     if satisfied:
-        ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.PASS,
-                            f"required ({reasons}) and provided", demand=av_min, capacity=st.area,  # type: ignore[union-attr]
-                            unit="mm²", utilisation=span.u_min))
+        ctx.result("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.PASS,
+                   f"required ({reasons}) and provided", demand=av_min, capacity=st.area,  # type: ignore[union-attr]
+                   unit="mm²", utilisation=span.u_min)
         return
     if st is None:
         s10 = 200.0 / rate
         msg = (f"Minimum stirrups are required {WHERE[loc]} ({reasons}) but none are scheduled: "
                f"Av,min/s = {rate:.3f} mm²/mm (cl. {cl_a}), e.g. 2 legs of 10M at no more than {s10:.0f} mm "
                "(and within the spacing limits of cl. 11.3.8).")
-        ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.FAIL, msg, demand=None,
-                            capacity=0.0, unit="mm²", utilisation=math.inf))
+        ctx.result("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.FAIL, msg, demand=None,
+                   capacity=0.0, unit="mm²", utilisation=math.inf)
         return
     msg = (f"{st} gives Av = {st.area:.0f} mm², less than Av,min = {av_min:.0f} mm² at s = {st.spacing:g} mm "
            f"{WHERE[loc]} (cl. {cl_a}; required: {reasons}): close up or enlarge the stirrups. "
            "Vs is ignored in the shear check until Av ≥ Av,min.")
-    ctx.add(CheckResult("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.FAIL, msg, demand=av_min,
-                        capacity=st.area, unit="mm²", utilisation=span.u_min))
+    ctx.result("min_stirrups", "Min. stirrups", loc, clause, CheckStatus.FAIL, msg, demand=av_min,
+               capacity=st.area, unit="mm²", utilisation=span.u_min)
 
 
 def _spacing(ctx: SpanContext, code: DetailingProvisions, loc: Location, x: Spacing, vf: float | None) -> None:
@@ -598,14 +598,14 @@ def _spacing(ctx: SpanContext, code: DetailingProvisions, loc: Location, x: Spac
         msg = (f"s = {s:g} mm is within {x.loose:.0f} mm ({_limit_words(code, x, False)}, cl. {cl1}) but above "
                f"{x.tight:.0f} mm ({_limit_words(code, x, True)}, cl. {cl3}), which applies if Vf > "
                f"{x.vhigh / N_PER_KN:.1f} kN; Vf is not scheduled.")
-        ctx.add(CheckResult("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", status, msg, demand=s,
-                            unit="mm"))
+        ctx.result("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", status, msg, demand=s,
+                   unit="mm")
         return
     if status is CheckStatus.FAIL and not x.needed:
-        ctx.add(CheckResult("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", CheckStatus.PASS,
-                            f"s = {s:g} mm exceeds {limit:.0f} mm ({_limit_words(code, x, bool(high))}, cl. {clause}), "
-                            f"but no stirrups are required {WHERE[loc]} (Vf ≤ Vc without them, h ≤ 750 mm), so the "
-                            "limit binds none here", demand=s, capacity=limit, unit="mm"))
+        ctx.result("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", CheckStatus.PASS,
+                   f"s = {s:g} mm exceeds {limit:.0f} mm ({_limit_words(code, x, bool(high))}, cl. {clause}), "
+                   f"but no stirrups are required {WHERE[loc]} (Vf ≤ Vc without them, h ≤ 750 mm), so the "
+                   "limit binds none here", demand=s, capacity=limit, unit="mm")
         return
     if status is CheckStatus.PASS:
         msg = "" if vf is not None else f"s ≤ {x.tight:.0f} mm, the tighter limit of cl. {cl3}"
@@ -613,8 +613,8 @@ def _spacing(ctx: SpanContext, code: DetailingProvisions, loc: Location, x: Spac
         msg = (f"Stirrups at s = {s:g} mm exceed the largest spacing {limit:.0f} mm ({_limit_words(code, x, bool(high))}"
                + (f", halved because Vf > 0.125 λ φc f'c bw dv = {x.vhigh / N_PER_KN:.1f} kN" if high else "")
                + f") {WHERE[loc]} (cl. {clause}): space them at {math.floor(limit):.0f} mm or less.")
-    ctx.add(CheckResult("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", status, msg, demand=s,
-                        capacity=limit, unit="mm", utilisation=x.u))
+    ctx.result("stirrup_spacing", "Stirrup spacing", loc, f"{cl1}, {cl3}", status, msg, demand=s,
+               capacity=limit, unit="mm", utilisation=x.u)
 
 
 def _limit_words(code: DetailingProvisions, x: Spacing, high: bool) -> str:
@@ -626,15 +626,15 @@ def _long_steel(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: E
     clause = ctx.code.clauses["long_steel"]
     if isinstance(e, str) or e.vf is None:
         why = e if isinstance(e, str) else "Vf is not scheduled"
-        ctx.add(CheckResult("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.NOT_CHECKED,
-                            f"Longitudinal steel for shear {WHERE[loc]} not checked: {why} (cl. {clause}).",
-                            unit="kN"))
+        ctx.result("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.NOT_CHECKED,
+                   f"Longitudinal steel for shear {WHERE[loc]} not checked: {why} (cl. {clause}).",
+                   unit="kN")
         return
     side, x = e.side, e.long
     if x is None:  # no moment scheduled
-        ctx.add(CheckResult("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.NOT_CHECKED,
-                            f"Longitudinal steel for shear {WHERE[loc]} not checked: {side.mf_words} is not "
-                            f"scheduled (cl. {clause}).", unit="kN"))
+        ctx.result("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.NOT_CHECKED,
+                   f"Longitudinal steel for shear {WHERE[loc]} not checked: {side.mf_words} is not "
+                   f"scheduled (cl. {clause}).", unit="kN")
         return
     ft_k, cap_k = x.ft / N_PER_KN, x.cap / N_PER_KN
     if ctx.tracing:
@@ -652,14 +652,14 @@ def _long_steel(ctx: SpanContext, code: DetailingProvisions, loc: Location, e: E
             anchor += (" All the midspan bottom bars were taken to run into the support; schedule the bottom bars at "
                        "the supports if fewer do.")
     if x.u <= 1:
-        ctx.add(CheckResult("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.PASS, anchor,
-                            demand=ft_k, capacity=cap_k, unit="kN", utilisation=x.u))
+        ctx.result("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.PASS, anchor,
+                   demand=ft_k, capacity=cap_k, unit="kN", utilisation=x.u)
         return
     msg = (f"The tension steel {WHERE[loc]} must carry Ft = Mf/dv + (Vf − 0.5 Vs) cot θ = {ft_k:.1f} kN but "
            f"φs As fy = {cap_k:.1f} kN ({side.bars}; cl. {clause}): add {side.face} bars there"
            + (" or more stirrups" if e.vs > 0 or inp.stirrups is None else "") + ". " + anchor)
-    ctx.add(CheckResult("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.FAIL, msg.strip(),
-                        demand=ft_k, capacity=cap_k, unit="kN", utilisation=x.u))
+    ctx.result("long_steel_shear", "Long. steel for shear", loc, clause, CheckStatus.FAIL, msg.strip(),
+               demand=ft_k, capacity=cap_k, unit="kN", utilisation=x.u)
 
 
 def run(ctx: SpanContext) -> None:
@@ -669,8 +669,8 @@ def run(ctx: SpanContext) -> None:
     clause = ctx.code.clauses.get("shear_resistance", "11.3")
     code = provisions(ctx)
     if code is None:
-        ctx.add(CheckResult("shear", "Shear", None, clause, CheckStatus.NOT_CHECKED,
-                            f"The design code in force ({ctx.code.id}) provides no shear provisions to beamsched."))
+        ctx.result("shear", "Shear", None, clause, CheckStatus.NOT_CHECKED,
+                   f"The design code in force ({ctx.code.id}) provides no shear provisions to beamsched.")
         return
     span = _prepared(ctx)
     if inp.Vf_left is None and inp.Vf_right is None:

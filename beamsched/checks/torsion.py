@@ -15,7 +15,7 @@ torsion was assessed. A rectangular or T-beam with no Tf gets a reminder (requir
 from __future__ import annotations
 
 from ..codes.base import DetailingProvisions
-from ..model import CheckResult, CheckStatus
+from ..model import CheckStatus
 from .context import NMM_PER_KNM, SpanContext
 
 
@@ -42,14 +42,14 @@ def run(ctx: SpanContext) -> None:
     clause, design = ctx.code.clauses["torsion_threshold"], ctx.code.clauses["torsion_design"]
     if inp.Tf is None:
         if inp.shape == "L":
-            ctx.add(CheckResult("torsion", "Torsion", None, clause, CheckStatus.NOT_CHECKED,
-                                f"Torsion not assessed: an L-beam (a spandrel) usually carries torsion from the slab "
-                                f"it supports, and no Tf is scheduled (cl. {clause}). Schedule Tf, or Tf = 0 where it "
-                                "has been assessed as negligible.", unit="kN·m"))
+            ctx.result("torsion", "Torsion", None, clause, CheckStatus.NOT_CHECKED,
+                       f"Torsion not assessed: an L-beam (a spandrel) usually carries torsion from the slab "
+                       f"it supports, and no Tf is scheduled (cl. {clause}). Schedule Tf, or Tf = 0 where it "
+                       "has been assessed as negligible.", unit="kN·m")
         else:
-            ctx.add(CheckResult("torsion", "Torsion", None, clause, CheckStatus.NOT_CHECKED,
-                                f"Reminder: no Tf is scheduled, so torsion was not assessed (cl. {clause}).",
-                                unit="kN·m", required=False))
+            ctx.result("torsion", "Torsion", None, clause, CheckStatus.NOT_CHECKED,
+                       f"Reminder: no Tf is scheduled, so torsion was not assessed (cl. {clause}).",
+                       unit="kN·m", required=False)
         return
     tf = abs(inp.Tf)
     frac = code.torsion_threshold_fraction()
@@ -67,15 +67,15 @@ def run(ctx: SpanContext) -> None:
     t("torsion", None, "Tf", tf / NMM_PER_KNM, "kN·m", clause, "factored torsion, as scheduled")
     u = tf / limit
     if u <= 1:
-        ctx.add(CheckResult("torsion", "Torsion", None, clause, CheckStatus.PASS,
-                            f"Tf ≤ 0.25 Tcr: torsion may be neglected (cl. {clause})" if tf > 0 else
-                            f"Tf = 0 as scheduled: torsion assessed as none (cl. {clause})",
-                            demand=tf / NMM_PER_KNM, capacity=limit / NMM_PER_KNM, unit="kN·m", utilisation=u))
+        ctx.result("torsion", "Torsion", None, clause, CheckStatus.PASS,
+                   f"Tf ≤ 0.25 Tcr: torsion may be neglected (cl. {clause})" if tf > 0 else
+                   f"Tf = 0 as scheduled: torsion assessed as none (cl. {clause})",
+                   demand=tf / NMM_PER_KNM, capacity=limit / NMM_PER_KNM, unit="kN·m", utilisation=u)
         return
-    ctx.add(CheckResult("torsion", "Torsion", None, f"{clause}, {design}", CheckStatus.NOT_CHECKED,
-                        f"Tf = {tf / NMM_PER_KNM:.1f} kN·m exceeds 0.25 Tcr = {limit / NMM_PER_KNM:.1f} kN·m (cl. {clause}, "
-                        f"{words}): full torsion design required ({design}), which beamsched does not make; the "
-                        "shear and longitudinal steel checks here ignore torsion.",
-                        # Tf against the threshold, not against a resistance: no utilisation, so that
-                        # the span's largest utilisation and governing check stay capacity ratios
-                        demand=tf / NMM_PER_KNM, capacity=limit / NMM_PER_KNM, unit="kN·m"))
+    ctx.result("torsion", "Torsion", None, f"{clause}, {design}", CheckStatus.NOT_CHECKED,
+               f"Tf = {tf / NMM_PER_KNM:.1f} kN·m exceeds 0.25 Tcr = {limit / NMM_PER_KNM:.1f} kN·m (cl. {clause}, "
+               f"{words}): full torsion design required ({design}), which beamsched does not make; the "
+               "shear and longitudinal steel checks here ignore torsion.",
+               # Tf against the threshold, not against a resistance: no utilisation, so that
+               # the span's largest utilisation and governing check stay capacity ratios
+               demand=tf / NMM_PER_KNM, capacity=limit / NMM_PER_KNM, unit="kN·m")
