@@ -17,6 +17,7 @@ from .model import (
     BeamInput,
     BeamResult,
     BeamStatus,
+    CheckResult,
     PackedChecks,
     Problem,
     RecentlyRead,
@@ -24,7 +25,7 @@ from .model import (
     Schedule,
     TraceLine,
     WorkedOutTuple,
-    status_of,
+    beam_status,
 )
 
 # Not a limit of the standard: the smallest web width or depth read as millimetres. Joist ribs
@@ -253,13 +254,16 @@ def _check_spans(inputs: list[BeamInput], code: DesignCode, tracing: bool,
     for i, ctx in contexts:
         for module in CHECK_MODULES:
             module.run(ctx)
-        rows = ctx.results
         inp = ctx.inp
-        if chunk is not None:
+        if chunk is None:
+            checks: tuple[CheckResult, ...] | PackedChecks = ctx.checks()
+            status = beam_status(checks)
+        else:
             chunk.roots[i] = flexure.found_roots(ctx)
+            checks = PackedChecks.of_rows(ctx.results)
+            status = checks.status()
         out[i] = BeamResult(
-            inp.mark, inp.span_no, inp.row, status_of([(row[4], row[10]) for row in rows]),
-            checks=ctx.checks() if tracing else PackedChecks.of_rows(rows), values=dict(ctx.values),
+            inp.mark, inp.span_no, inp.row, status, checks=checks, values=dict(ctx.values),
             trace=tuple(ctx.trace) if chunk is None else LazyTrace(chunk, i),  # type: ignore[arg-type]
             problems=inp.warnings, assumed=inp.assumed, understood=dict(ctx.understood), input=inp,
         )

@@ -226,6 +226,8 @@ class WorkedOutTuple(Sequence):
 
 _STATUS_CODES = {CheckStatus.PASS: 0, CheckStatus.FAIL: 1, CheckStatus.NOT_CHECKED: 2}
 _STATUSES = tuple(_STATUS_CODES)
+_FAIL_CODE = _STATUS_CODES[CheckStatus.FAIL]
+_NOT_CHECKED_AS_ONE = bytes(int(code == _STATUS_CODES[CheckStatus.NOT_CHECKED]) for code in range(256))
 
 
 class PackedChecks(WorkedOutTuple):
@@ -240,8 +242,9 @@ class PackedChecks(WorkedOutTuple):
     writer reads one span's checks several times in a row.
     """
 
-    __slots__ = ("_kinds", "_status", "_messages", "_numbers", "_absent", "_ints")
-    _kind_lists: dict[tuple, tuple] = {}
+    __slots__ = ("_kinds", "_required", "_status", "_messages", "_numbers", "_absent", "_ints")
+    # each list of kinds as first seen, with its required checks as bits (bit 8i: check i)
+    _kind_lists: dict[tuple, tuple[tuple, int]] = {}
     KEEP = 64
     _recent = RecentlyRead(KEEP)
 
@@ -264,7 +267,10 @@ class PackedChecks(WorkedOutTuple):
             (ids, labels, locations, clauses, statuses, messages, demands, capacities, units, utilisations,
              required) = zip(*rows, strict=True)
         kinds = tuple(zip(ids, labels, locations, clauses, units, required, strict=True))
-        self._kinds = PackedChecks._kind_lists.setdefault(kinds, kinds)
+        shared = PackedChecks._kind_lists.get(kinds)
+        if shared is None:
+            shared = PackedChecks._kind_lists[kinds] = (kinds, int.from_bytes(bytes(map(bool, required)), "little"))
+        self._kinds, self._required = shared
         self._status = bytes(map(_STATUS_CODES.__getitem__, statuses))
         self._messages = messages
         values = list(chain.from_iterable(zip(demands, capacities, utilisations, strict=True)))
@@ -277,6 +283,15 @@ class PackedChecks(WorkedOutTuple):
                 elif type(v) is int:
                     ints |= 1 << k
         self._numbers, self._absent, self._ints = array("d", values), absent, ints
+
+    def status(self) -> BeamStatus:
+        """:func:`beam_status` of the results, read from the packed statuses."""
+        if _FAIL_CODE in self._status:
+            return BeamStatus.FAIL
+        not_made = int.from_bytes(self._status.translate(_NOT_CHECKED_AS_ONE), "little")
+        if not_made & self._required or not self._status:
+            return BeamStatus.INCOMPLETE
+        return BeamStatus.PASS
 
     def _value(self, k: int) -> float | int | None:
         bit = 1 << k
@@ -343,16 +358,11 @@ class BeamResult:
 
 def beam_status(checks: Sequence[CheckResult]) -> BeamStatus:
     """A span passes only when every required check was made and passed (issue contract)."""
-    return status_of([(c.status, c.required) for c in checks])
-
-
-def status_of(made: Sequence[tuple[CheckStatus, bool]]) -> BeamStatus:
-    """:func:`beam_status` from each check's (status, required)."""
-    if any(status is CheckStatus.FAIL for status, _ in made):
+    if any(c.status is CheckStatus.FAIL for c in checks):
         return BeamStatus.FAIL
-    if any(status is CheckStatus.NOT_CHECKED and required for status, required in made):
+    if any(c.status is CheckStatus.NOT_CHECKED and c.required for c in checks):
         return BeamStatus.INCOMPLETE
-    if not made:
+    if not checks:
         return BeamStatus.INCOMPLETE
     return BeamStatus.PASS
 

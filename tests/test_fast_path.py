@@ -16,7 +16,7 @@ import pytest
 
 from beamsched.codes import get_code
 from beamsched.engine import LazyTrace, check_beam, check_schedule
-from beamsched.model import BeamInput, BeamStatus, CheckResult, CheckStatus, PackedChecks, TraceLine
+from beamsched.model import BeamInput, BeamStatus, CheckResult, CheckStatus, PackedChecks, TraceLine, beam_status
 from beamsched.schedule import read_schedule
 from beamsched.schedule.samples import generate_schedule
 
@@ -132,6 +132,26 @@ def test_packed_checks_give_back_every_field_and_type():
     assert packed[-1].utilisation == math.inf and packed[-1].required is False
     assert packed[1:3] == made[1:3]
     assert packed + made[:1] == made + made[:1] and made[:1] + packed == made[:1] + made
+
+
+@pytest.mark.parametrize("statuses, required, expected", [
+    # the span's status rule of DEVELOPERS.md, "Statuses" (beamsched policy)
+    ((), (), BeamStatus.INCOMPLETE),  # nothing checked cannot pass
+    (("pass", "pass"), (True, True), BeamStatus.PASS),
+    (("pass", "not_checked"), (True, False), BeamStatus.PASS),  # a reminder does not hold a span back
+    (("pass", "not_checked"), (True, True), BeamStatus.INCOMPLETE),
+    (("not_checked", "fail"), (True, False), BeamStatus.FAIL),  # a failure outranks what was not made
+    (("fail",) + ("pass",) * 40, (False,) * 41, BeamStatus.FAIL),
+    (("pass",) * 40 + ("not_checked",), (False,) * 40 + (True,), BeamStatus.INCOMPLETE),
+])
+def test_packed_status_is_the_span_status_rule(statuses, required, expected):
+    made = tuple(CheckResult(f"c{i}", "C", None, "", CheckStatus(s), "", None, None, "", None, r)
+                 for i, (s, r) in enumerate(zip(statuses, required, strict=True)))
+    assert beam_status(made) is expected
+    assert PackedChecks(made).status() is expected
+    rows = [(c.id, c.label, c.location, c.clause, c.status, c.message, c.demand, c.capacity, c.unit, c.utilisation,
+             c.required) for c in made]
+    assert PackedChecks.of_rows(rows).status() is expected and PackedChecks.of_rows(rows) == made
 
 
 def test_a_schedule_is_checked_in_chunks_with_the_same_results(both, monkeypatch):

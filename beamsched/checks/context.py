@@ -122,6 +122,7 @@ class SpanContext:
         self.understood: dict[str, str] = {}
         self.results: list[tuple] = []  # each a CheckResult's fields, in order (see result)
         self._flexure: dict[tuple[Sense, Location], FlexureCase | str] = {}
+        self.cases: list[tuple[Sense, Location]] | None = None  # see checks.flexure.cases
         self.shear: object | None = None  # this span's part of checks.shear.prepare's columns
         # As,req by (sense, location, Mf): see checks.flexure.required_steel
         self.required: dict[tuple[Sense, Location, float], float] = {}

@@ -42,7 +42,13 @@ def demand_of(inp: BeamInput, sense: Sense, location: Location) -> float | None:
 
 
 def cases(ctx: SpanContext) -> list[tuple[Sense, Location]]:
-    """The flexural sections this span must be checked at."""
+    """The flexural sections this span must be checked at (several checks ask; worked out once)."""
+    if ctx.cases is None:
+        ctx.cases = _cases(ctx)
+    return ctx.cases
+
+
+def _cases(ctx: SpanContext) -> list[tuple[Sense, Location]]:
     inp = ctx.inp
     cantilever = "free" in (inp.left_end, inp.right_end)
     out: list[tuple[Sense, Location]] = [] if cantilever and inp.Mf_pos is None else [("pos", "mid")]

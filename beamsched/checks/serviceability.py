@@ -117,13 +117,15 @@ def _crack(ctx: SpanContext, code: DetailingProvisions, sense: Sense, loc: Locat
     factor = code.crack_epoxy_factor() if inp.epoxy else 1.0
     z = factor * fs * (dc * A) ** (1 / 3)
     limit = code.crack_z_limit(inp.exposure)
-    t("crack_control", loc, "fs", fs, "MPa", clause, fs_words)
-    t("crack_control", loc, "clear cover", clear, "mm", clause, f"to the {name}, used as {used:g} mm (≤ {cap:g} mm)")
-    t("crack_control", loc, "dc", dc, "mm", clause, "capped clear cover + db/2 of the bars nearest the face")
-    t("crack_control", loc, "N", nbars, "", clause, f"As / area of the largest bar ({largest.size})")
-    t("crack_control", loc, "A", A, "mm²", clause, f"2 ȳ bw / N, ȳ = {ybar:.1f} mm (cover part capped)")
-    t("crack_control", loc, "z", z, "N/mm", clause, "fs (dc A)^(1/3)" + (" × 1.2 (epoxy-coated bars)" if inp.epoxy else ""))
-    t("crack_control", loc, "z limit", limit, "N/mm", clause, f"{inp.exposure} exposure")
+    if ctx.tracing:
+        t("crack_control", loc, "fs", fs, "MPa", clause, fs_words)
+        t("crack_control", loc, "clear cover", clear, "mm", clause, f"to the {name}, used as {used:g} mm (≤ {cap:g} mm)")
+        t("crack_control", loc, "dc", dc, "mm", clause, "capped clear cover + db/2 of the bars nearest the face")
+        t("crack_control", loc, "N", nbars, "", clause, f"As / area of the largest bar ({largest.size})")
+        t("crack_control", loc, "A", A, "mm²", clause, f"2 ȳ bw / N, ȳ = {ybar:.1f} mm (cover part capped)")
+        t("crack_control", loc, "z", z, "N/mm", clause,
+          "fs (dc A)^(1/3)" + (" × 1.2 (epoxy-coated bars)" if inp.epoxy else ""))
+        t("crack_control", loc, "z limit", limit, "N/mm", clause, f"{inp.exposure} exposure")
     u = z / limit
     if u <= 1:
         ctx.result("crack_control", "Crack control", loc, clause, CheckStatus.PASS, "",
