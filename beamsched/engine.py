@@ -9,8 +9,9 @@ from collections.abc import Callable
 
 import numpy as np
 
+from .bars import BarArrangement
 from .checks import CHECK_MODULES, flexure
-from .checks.context import SpanContext, placement
+from .checks.context import PLACEMENTS_KEPT, SpanContext, placement
 from .codes import DesignCode, get_code
 from .collector import gc_paused
 from .model import (
@@ -27,6 +28,7 @@ from .model import (
     WorkedOutTuple,
     beam_status,
 )
+from .section import PlacedBars
 
 # Not a limit of the standard: the smallest web width or depth read as millimetres. Joist ribs
 # are at least 100 mm wide (common practice), so anything under 50 mm is a unit slip (metres or
@@ -43,6 +45,11 @@ FIELD_LABELS = {
 }
 
 
+# Dimensions, strengths and lengths that must be positive when given, in the order reported.
+POSITIVE_FIELDS = ("bw", "h", "fc", "fy", "fyt", "span", "clear_span", "agg", "clear_to_next_web", "layer_clear", "hf",
+                   "bf", "d_bottom", "d_top")
+
+
 def validate(inp: BeamInput, code: DesignCode) -> list[Problem]:
     """Everything about a span that would make a computed number wrong, as problems."""
     out: list[Problem] = []
@@ -51,32 +58,29 @@ def validate(inp: BeamInput, code: DesignCode) -> list[Problem]:
         out.append(Problem(f"{FIELD_LABELS.get(field, field)} = {value!r}: expected {expected}",
                            FIELD_LABELS.get(field, field), value, inp.row))
 
-    def finite(field: str) -> bool:
-        v = getattr(inp, field)
-        if v is None:
-            return False
+    def finite(field: str, v) -> bool:
         if not isinstance(v, (int, float)) or not math.isfinite(v):
             bad(field, v, "a finite number")
             return False
         return True
 
-    for f in ("bw", "h", "fc", "fy"):
-        if finite(f) and getattr(inp, f) <= 0:
-            bad(f, getattr(inp, f), "a positive number")
-    for f in ("fyt", "span", "clear_span", "agg", "clear_to_next_web", "layer_clear", "hf", "bf", "d_bottom", "d_top"):
-        if finite(f) and getattr(inp, f) <= 0:
-            bad(f, getattr(inp, f), "a positive number")
+    for f in POSITIVE_FIELDS:
+        v = getattr(inp, f)
+        if v is not None and finite(f, v) and v <= 0:
+            bad(f, v, "a positive number")
     for f in ("bw", "h"):
         v = getattr(inp, f)
         if isinstance(v, (int, float)) and math.isfinite(v) and 0 < v < MIN_SECTION_MM:
             bad(f, v, f"at least {MIN_SECTION_MM:g} mm: no beam is that small, so the value is probably in metres "
                       f"or centimetres; say so in the header, e.g. '{FIELD_LABELS[f]} (m)'")
     for f in ("cover_top", "cover_bottom"):
-        if finite(f) and getattr(inp, f) < 0:
-            bad(f, getattr(inp, f), "zero or more (clear cover to the stirrups, mm)")
+        v = getattr(inp, f)
+        if v is not None and finite(f, v) and v < 0:
+            bad(f, v, "zero or more (clear cover to the stirrups, mm)")
     for f in ("Mf_pos", "Mf_pos_left", "Mf_pos_right"):
-        if finite(f) and getattr(inp, f) < 0:
-            bad(f, getattr(inp, f) / 1e6, "zero or more kN·m (sagging); hogging belongs in Mf-")
+        v = getattr(inp, f)
+        if v is not None and finite(f, v) and v < 0:
+            bad(f, v / 1e6, "zero or more kN·m (sagging); hogging belongs in Mf-")
     if inp.shape not in ("rect", "T", "L"):
         bad("shape", inp.shape, "Rect, T or L")
     if not (0 < inp.lam <= 1.0):
@@ -143,20 +147,32 @@ def _understood(ctx: SpanContext) -> None:
         for words, value in f.limits.items():
             ctx.add_trace("section", None, "overhang limit", value, "mm", f.clause, words)
         ctx.add_trace("section", None, "bf", f.bf, "mm", f.clause, f"effective flange width ({why})")
-    faces = {
-        "bottom bars": (inp.bottom_bars, "bottom", True),
-        "top bars L": (inp.top_bars_left, "top", True),
-        "top bars R": (inp.top_bars_right, "top", True),
-        "top bars mid": (inp.top_bars_mid, "top", False),
-        "bottom bars at supports": (inp.bottom_bars_support, "bottom", True),
-    }
-    for name, (bars, face, tension) in faces.items():
-        if bars is None:
-            continue
-        placed = ctx.place(bars, face, tension)  # type: ignore[arg-type]
-        depths = ", ".join(f"{p.count}-{p.size} at {inp.h - p.depth:.1f}" for p in placed)
-        u[name] = f"{bars}: As = {bars.area:.0f} mm²; d = {depths} mm" + (
+    for name, field, face, tension in UNDERSTOOD_BARS:
+        bars = getattr(inp, field)
+        if bars is not None:
+            u[name] = _bars_in_words(bars, ctx.place(bars, face, tension), inp.h)
+
+
+UNDERSTOOD_BARS = (("bottom bars", "bottom_bars", "bottom", True), ("top bars L", "top_bars_left", "top", True),
+                   ("top bars R", "top_bars_right", "top", True), ("top bars mid", "top_bars_mid", "top", False),
+                   ("bottom bars at supports", "bottom_bars_support", "bottom", True))
+_WORDS: dict[tuple, tuple] = {}
+
+
+def _bars_in_words(bars: BarArrangement, placed: tuple[PlacedBars, ...], h: float) -> str:
+    """Scheduled bars as understood: their area and the depth d of each group. Placements are
+    shared (``checks.context.placement``), so each distinct text is made once; an entry holds
+    its placement, so the placement's id stays its own."""
+    key = (id(placed), bars, h)
+    held = _WORDS.get(key)
+    if held is None:
+        depths = ", ".join(f"{p.count}-{p.size} at {h - p.depth:.1f}" for p in placed)
+        text = f"{bars}: As = {bars.area:.0f} mm²; d = {depths} mm" + (
             " (explicit d, lumped)" if placed and placed[0].lumped else "")
+        if len(_WORDS) >= PLACEMENTS_KEPT:
+            _WORDS.clear()
+        held = _WORDS[key] = (placed, text)
+    return held[1]
 
 
 CHUNK_SPANS = 512  # spans checked together: their sections solved in one set of columns

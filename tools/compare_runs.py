@@ -11,8 +11,8 @@ and trace line by trace line::
 
 ``dump`` checks a schedule from ``generate_schedule`` (every section type and end condition; the
 same seed gives the same file) through ``check_schedule`` and keeps every span's status, each
-check's id, location, status, demand, capacity, utilisation and note, its values, and (unless
-``--no-trace``) every trace line. ``diff`` prints what differs and the largest relative
+check's id, location, status, demand, capacity, utilisation and note, its values, what the tool
+understood of the row, its problems and defaults, and (unless ``--no-trace``) every trace line. ``diff`` prints what differs and the largest relative
 difference of the numbers, and exits 1 if any status, note, text or number differs by more than
 ``--rel`` (default 0: bit for bit).
 """
@@ -39,7 +39,8 @@ def dump(out: Path, spans: int, seed: int, trace: bool) -> None:
         checks = [(c.id, c.location, c.status.value, c.demand, c.capacity, c.utilisation, c.message) for c in r.checks]
         lines = [(t.check, t.location, t.symbol, t.value, t.unit, t.clause, t.description) for t in r.trace] if trace else None
         name = f"{r.mark}" + ("" if r.span_no is None else f" span {r.span_no}") + f" (row {r.row})"
-        rows.append((name, r.status.value, checks, dict(r.values), lines))
+        said = (dict(r.understood), [p.message for p in r.problems], list(r.assumed))
+        rows.append((name, r.status.value, checks, dict(r.values), lines, said))
     out.write_bytes(pickle.dumps(rows))
     print(f"{len(rows)} rows written to {out}")
 
@@ -80,6 +81,9 @@ def diff(before: Path, after: Path, rel: float, show: int) -> int:
                 compare(f"{name} {ca[0]} ({ca[1]}) {field}", x, y)
         for key in sorted(set(ra[3]) | set(rb[3])):
             compare(f"{name} value {key}", ra[3].get(key), rb[3].get(key))
+        if len(ra) > 5 and len(rb) > 5:  # dumps made before these were kept have none
+            for what, x, y in zip(("understood", "problems", "assumed"), ra[5], rb[5], strict=True):
+                compare(f"{name} {what}", x, y)
         if ra[4] is not None and rb[4] is not None:
             if len(ra[4]) != len(rb[4]):
                 found.append(f"{name}: {len(ra[4])} trace lines before, {len(rb[4])} after")
