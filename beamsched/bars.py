@@ -190,8 +190,14 @@ def _parse_group(text: str, whole: str) -> BarGroup:
         )
     digits = m.group(1).lstrip("0") or "0"
     if len(digits) > len(str(MAX_GROUP_COUNT)) or int(digits) > MAX_GROUP_COUNT:
-        raise NotationError(f"'{text.strip()[:40]}' in '{whole[:60]}': a bar count of at most {MAX_GROUP_COUNT} "
-                            "was expected (no beam layer holds more)")
+        def shown(t: str, n: int) -> str:
+            return t if len(t) <= n else t[:n] + "…"
+
+        group = text.strip()
+        where = f"'{shown(group, 40)}'" + ("" if group == whole else f" in '{shown(whole, 60)}'")
+        count = digits if len(digits) <= 12 else f"{digits[:6]}… ({len(digits)} digits)"
+        raise NotationError(f"{where}: {count} bars in one group; expected a bar count of at most {MAX_GROUP_COUNT} "
+                            "(no beam layer holds more)")
     count = int(digits)
     if count < 1:
         raise NotationError(f"'{text.strip()}' in '{whole}': the bar count must be 1 or more")
