@@ -1,5 +1,6 @@
-"""Each distinct flexural setup (section, placed bars, ties) is made once and remembered; a case
-made from a remembered setup must be the same, number for number, as one made fresh.
+"""Each distinct outline of a flexural case (a section seen from its compression face) and each
+distinct set of its bars (placed bars, depth, ties) is made once and remembered; a case made
+from remembered ones must be the same, number for number, as one made fresh.
 
 The sections are the benchmark's own generator (``generate_schedule``: every section type and
 end condition). These tests assert no engineering value: they hold the remembered path to the
@@ -21,7 +22,7 @@ from beamsched.model import BeamInput
 from beamsched.schedule import read_schedule
 from beamsched.schedule.samples import generate_schedule
 from beamsched.section import Rect
-from beamsched.solve.flexure import SectionColumns, SolverBar, section_rows
+from beamsched.solve.flexure import SectionColumns, SolverBar, bar_rows, outline_rows
 
 N_SPANS = 120
 CASE_FIELDS = ("Mr", "As", "c", "c_over_d", "d", "compression_face", "compression_tied", "row")
@@ -38,7 +39,8 @@ def inputs(tmp_path_factory):
 
 def forget() -> None:
     context._PLACEMENTS.clear()
-    context._SETUPS.clear()
+    context._OUTLINES.clear()
+    context._SOLVER_BARS.clear()
 
 
 def prepared(inputs, code, chunk: int, remember: bool = True) -> list[SpanContext]:
@@ -56,11 +58,11 @@ def same(a, b) -> bool:
     return type(a) is type(b) and a == b
 
 
-def test_a_case_from_a_remembered_setup_equals_one_made_fresh(inputs):
+def test_a_case_from_remembered_parts_equals_one_made_fresh(inputs):
     spans, code = inputs
     forget()
-    fresh = prepared(spans, code, len(spans))  # each setup made the first time it is met
-    remembered = prepared(spans, code, 7)  # every setup remembered, other rows beside it
+    fresh = prepared(spans, code, len(spans))  # each part made the first time it is met
+    remembered = prepared(spans, code, 7)  # every part remembered, other rows beside it
     alone = prepared(spans, code, 1, remember=False)  # each span alone, nothing remembered
     compared = 0
     for a, b, c in zip(fresh, remembered, alone, strict=True):
@@ -83,27 +85,31 @@ def test_a_case_from_a_remembered_setup_equals_one_made_fresh(inputs):
     assert compared > 2 * len(spans)
 
 
-def test_equal_setups_are_shared_and_each_entry_holds_what_its_key_names(inputs):
+def test_equal_parts_are_shared_and_each_entry_holds_what_its_key_names(inputs):
     spans, code = inputs
     forget()
     contexts = prepared(spans, code, len(spans))
-    setups = [case.setup for ctx in contexts for case in ctx._flexure.values() if isinstance(case, FlexureCase)]
-    assert len({id(s) for s in setups}) < len(setups)  # a generated schedule repeats sections and bars
-    assert len(context._SETUPS) == len({id(s) for s in setups})
-    for key, setup in context._SETUPS.items():
+    cases = [case for ctx in contexts for case in ctx._flexure.values() if isinstance(case, FlexureCase)]
+    for part, memo in (("concrete", context._OUTLINES), ("steel", context._SOLVER_BARS)):
+        distinct = {id(getattr(case, part)) for case in cases}
+        assert len(distinct) < len(cases)  # a generated schedule repeats sections and bars
+        assert len(memo) == len(distinct)
+    for (section, face), concrete in context._OUTLINES.items():
+        assert concrete.compression_face == face and concrete.outline == section.outline_from(face)
+    for key, steel in context._SOLVER_BARS.items():
         # the ids in a key are those of placements the entry holds: never reused by another object
-        assert key[0] == id(setup.tension_placed) and key[1] == id(setup.compression_placed)
-        assert key[2] is setup.tied and key[3] == setup.compression_face
+        assert key[0] == id(steel.tension_placed) and key[1] == id(steel.compression_placed)
+        assert key[3] is steel.tied
 
 
-def test_the_remembered_setups_are_bounded(inputs, monkeypatch):
+def test_what_is_remembered_is_bounded(inputs, monkeypatch):
     spans, code = inputs
     forget()
     reference = prepared(spans, code, len(spans))
     monkeypatch.setattr(context, "PLACEMENTS_KEPT", 5)
     forget()
     bounded = prepared(spans, code, 3)
-    assert len(context._SETUPS) <= 5 and len(context._PLACEMENTS) <= 5
+    assert len(context._OUTLINES) <= 5 and len(context._SOLVER_BARS) <= 5 and len(context._PLACEMENTS) <= 5
     for a, b in zip(reference, bounded, strict=True):
         for key, case in a._flexure.items():
             if isinstance(case, FlexureCase):
@@ -131,8 +137,10 @@ def test_columns_from_remembered_rows_equal_columns_stacked_fresh():
     fy = [400.0] * len(order)
     rest = ([0.85] * len(order), [200_000.0] * len(order), [0.895] * len(order), [0.0035] * len(order))
     fresh = SectionColumns.stack([SECTIONS[i] for i in order], fcd, fy, *rest)
-    rows = [section_rows(*s) for s in SECTIONS]
-    remembered = SectionColumns.of_rows([rows[i] for i in order], tuple(fcd), tuple(fy), *rest)
+    outlines = [outline_rows(o) for o, _ in SECTIONS]
+    bars = [bar_rows(b) for _, b in SECTIONS]
+    remembered = SectionColumns.of_rows([outlines[i] for i in order], [bars[i] for i in order], tuple(fcd), tuple(fy),
+                                        *rest)
     for name in COLUMN_FIELDS:
         a, b = getattr(fresh, name), getattr(remembered, name)
         assert a.dtype == b.dtype and a.shape == b.shape and np.array_equal(a, b), name

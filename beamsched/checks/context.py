@@ -20,12 +20,14 @@ from ..codes import DesignCode, FlangeWidth
 from ..model import BeamInput, CheckResult, CheckStatus, Location, TraceLine
 from ..section import PlacedBars, Rect, Section, centroid_depth, place_bars
 from ..solve.flexure import (
+    BarRows,
     FlexureSolution,
+    OutlineRows,
     SectionColumns,
-    SectionRows,
     SolvedColumns,
     SolverBar,
-    section_rows,
+    bar_rows,
+    outline_rows,
     solution_of,
     solve_columns,
     tension_centroid,
@@ -40,20 +42,27 @@ NMM_PER_KNM = 1e6
 
 
 @dataclass(frozen=True, slots=True, eq=False)
-class CaseSetup:
-    """What a flexural case is in any span with the same section, placed bars and ties: its
-    bars as the solver sees them and its rows in :class:`SectionColumns`. Schedules repeat
-    sections and bars, so each distinct setup is made once (:func:`case_setup`)."""
+class CaseOutline:
+    """A flexural case's outline seen from its compression face, and its rows in
+    :class:`SectionColumns`; the same for every span with an equal section (:func:`case_outline`)."""
 
     compression_face: Literal["top", "bottom"]
+    outline: tuple[Rect, ...]
+    rows: OutlineRows
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class CaseBars:
+    """A flexural case's bars as the solver sees them, and their rows in :class:`SectionColumns`;
+    the same for every span with the same placed bars, depth and ties (:func:`case_bars`)."""
+
     tension_placed: tuple[PlacedBars, ...]  # depths below the tension face
     compression_placed: tuple[PlacedBars, ...]  # depths below the compression face
     tied: bool
-    outline: tuple[Rect, ...]
     bars: tuple[SolverBar, ...]
     d: float  # depth of the tension-steel centroid below the compression face (mm)
     moment: float  # first moment of the tension steel's area about the compression face (mm³)
-    rows: SectionRows
+    rows: BarRows
 
 
 @dataclass(frozen=True, slots=True)
@@ -68,7 +77,8 @@ class FlexureCase:
     location: Location
     tension_bars: BarArrangement
     compression_bars: BarArrangement | None
-    setup: CaseSetup
+    concrete: CaseOutline
+    steel: CaseBars
     Mr: float  # N·mm, factored resistance
     As: float  # area of the flexural tension steel (mm²)
     c: float  # neutral-axis depth (mm)
@@ -81,32 +91,32 @@ class FlexureCase:
 
     @property
     def compression_face(self) -> Literal["top", "bottom"]:
-        return self.setup.compression_face
+        return self.concrete.compression_face
 
     @property
     def tension_placed(self) -> tuple[PlacedBars, ...]:
-        return self.setup.tension_placed
+        return self.steel.tension_placed
 
     @property
     def compression_placed(self) -> tuple[PlacedBars, ...]:
-        return self.setup.compression_placed
+        return self.steel.compression_placed
 
     @property
     def compression_tied(self) -> bool:
-        return self.setup.tied
+        return self.steel.tied
 
     @property
     def d(self) -> float:
         """Depth of the tension-steel centroid below the compression face (mm)."""
-        return self.setup.d
+        return self.steel.d
 
     @property
     def outline(self) -> tuple[Rect, ...]:
-        return self.setup.outline
+        return self.concrete.outline
 
     @property
     def bars(self) -> tuple[SolverBar, ...]:
-        return self.setup.bars
+        return self.steel.bars
 
     @property
     def solution(self) -> FlexureSolution:
@@ -255,9 +265,9 @@ class SpanContext:
         return held
 
     def _prepare(self, sense: Sense, location: Location
-                 ) -> tuple[BarArrangement, BarArrangement | None, CaseSetup] | str:
-        """What the solver needs for a case (tension bars, compression bars, and the setup: its
-        bars as seen from the compression face), or the reason there is no case."""
+                 ) -> tuple[BarArrangement, BarArrangement | None, CaseOutline, CaseBars] | str:
+        """What the solver needs for a case (tension bars, compression bars, the outline seen from
+        the compression face and the bars as the solver sees them), or the reason there is no case."""
         inp = self.inp
         tension, compression, name = self.bars_for(sense, location)
         if tension is None:
@@ -266,7 +276,43 @@ class SpanContext:
         tens_face = "bottom" if sense == "pos" else "top"
         t_placed = self.place(tension, tens_face, tension=True)
         c_placed = self.place(compression, comp_face, tension=False) if compression else ()
-        return tension, compression, case_setup(self.section, comp_face, t_placed, c_placed, inp.stirrups is not None)
+        return (tension, compression, case_outline(self.section, comp_face),
+                case_bars(t_placed, c_placed, inp.h, inp.stirrups is not None))
+
+
+_OUTLINES: dict[tuple, CaseOutline] = {}
+
+
+def case_outline(section: Section, comp_face: Literal["top", "bottom"]) -> CaseOutline:
+    """A section seen from its compression face. Each distinct one is made once and remembered
+    (up to :data:`PLACEMENTS_KEPT`; keyed by the section's values)."""
+    key = (section, comp_face)
+    held = _OUTLINES.get(key)
+    if held is None:
+        outline = section.outline_from(comp_face)
+        if len(_OUTLINES) >= PLACEMENTS_KEPT:
+            _OUTLINES.clear()
+        held = _OUTLINES[key] = CaseOutline(comp_face, outline, outline_rows(outline))
+    return held
+
+
+_SOLVER_BARS: dict[tuple, CaseBars] = {}
+
+
+def case_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float, tied: bool) -> CaseBars:
+    """The bars of a flexural case as the solver sees them (:func:`solver_bars`), with d and the
+    tension steel's first moment. Placements are shared (:func:`placement`), so each distinct
+    case is made once and remembered (up to :data:`PLACEMENTS_KEPT`); an entry holds the
+    placements whose ids its key uses, so those ids stay theirs."""
+    key = (id(t_placed), id(c_placed), h, tied)
+    held = _SOLVER_BARS.get(key)
+    if held is None:
+        bars = solver_bars(t_placed, c_placed, h, tied)
+        if len(_SOLVER_BARS) >= PLACEMENTS_KEPT:
+            _SOLVER_BARS.clear()
+        held = _SOLVER_BARS[key] = CaseBars(t_placed, c_placed, tied, bars, h - centroid_depth(t_placed),
+                                            tension_moment(bars), bar_rows(bars))
+    return held
 
 
 def solver_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float,
@@ -283,29 +329,6 @@ def solver_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ..
     )
 
 
-_SETUPS: dict[tuple, CaseSetup] = {}
-
-
-def case_setup(section: Section, comp_face: Literal["top", "bottom"], t_placed: tuple[PlacedBars, ...],
-               c_placed: tuple[PlacedBars, ...], tied: bool) -> CaseSetup:
-    """The setup of a flexural case: the section seen from its compression face, the bars
-    placed below their faces (:func:`placement`) and whether compression bars are tied. Each
-    distinct setup is made once and remembered (up to :data:`PLACEMENTS_KEPT`); an entry holds
-    the placements whose ids its key uses, so those ids stay theirs."""
-    key = (id(t_placed), id(c_placed), tied, comp_face, section)
-    held = _SETUPS.get(key)
-    if held is not None:
-        return held
-    outline = section.outline_from(comp_face)
-    bars = solver_bars(t_placed, c_placed, section.h, tied)
-    setup = CaseSetup(comp_face, t_placed, c_placed, tied, outline, bars, section.h - centroid_depth(t_placed),
-                      tension_moment(bars), section_rows(outline, bars))
-    if len(_SETUPS) >= PLACEMENTS_KEPT:
-        _SETUPS.clear()
-    _SETUPS[key] = setup
-    return setup
-
-
 def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) -> None:
     """Solve the flexural cases of many spans at once (one set of columns, one solve: see
     :mod:`beamsched.solve.flexure`) and keep each in its span's context. A case already solved
@@ -313,7 +336,8 @@ def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) ->
     todo_ctx: list[SpanContext] = []
     todo_key: list[tuple[Sense, Location]] = []
     todo_bars: list[tuple[BarArrangement, BarArrangement | None]] = []
-    todo_setup: list[CaseSetup] = []
+    todo_shape: list[CaseOutline] = []
+    todo_steel: list[CaseBars] = []
     asked: set[tuple[int, tuple[Sense, Location]]] = set()  # the same case asked for twice is solved once
     for ctx, key in wanted:
         if key in ctx._flexure or (id(ctx), key) in asked:
@@ -326,19 +350,21 @@ def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) ->
             todo_ctx.append(ctx)
             todo_key.append(key)
             todo_bars.append(prepared[:2])
-            todo_setup.append(prepared[2])
+            todo_shape.append(prepared[2])
+            todo_steel.append(prepared[3])
     if not todo_ctx:
         return
     fcd, fy, phi_s, Es, beta1, eps_cu = zip(*[ctx.flexure_strengths() for ctx in todo_ctx], strict=True)
-    columns = SectionColumns.of_rows([setup.rows for setup in todo_setup], fcd, fy, phi_s, Es, beta1, eps_cu)
+    columns = SectionColumns.of_rows([shape.rows for shape in todo_shape], [steel.rows for steel in todo_steel],
+                                     fcd, fy, phi_s, Es, beta1, eps_cu)
     known = [ctx.roots.get(key) for ctx, key in zip(todo_ctx, todo_key, strict=True)] if any(
         ctx.roots for ctx in todo_ctx) else []
     solved = solve_columns(columns, None if not any(v is not None for v in known) else
                            np.array([np.nan if v is None else v for v in known]))
     mr, area, depth = solved.Mr.tolist(), solved.As.tolist(), solved.c.tolist()
-    for i, (ctx, key, (tension, compression), setup) in enumerate(zip(todo_ctx, todo_key, todo_bars, todo_setup,
-                                                                       strict=True)):
-        d_solved = tension_centroid(setup.bars, area[i], setup.moment)
+    for i, (ctx, key, (tension, compression), shape, steel) in enumerate(
+            zip(todo_ctx, todo_key, todo_bars, todo_shape, todo_steel, strict=True)):
+        d_solved = tension_centroid(steel.bars, area[i], steel.moment)
         ctx._flexure[key] = FlexureCase(
-            key[0], key[1], tension, compression, setup, mr[i], area[i], depth[i],  # type: ignore[arg-type]
+            key[0], key[1], tension, compression, shape, steel, mr[i], area[i], depth[i],  # type: ignore[arg-type]
             depth[i] / d_solved if d_solved > 0 else math.inf, columns, solved, i, ctx.block.alpha1)

@@ -29,8 +29,8 @@ from .roots import bracketed_roots
 
 __all__ = [
     "SolverBar", "FlexureSolution", "BarState", "SectionColumns", "SolvedColumns", "solve_columns",
-    "resistance_columns", "required_scale", "solution_of", "tension_centroid", "tension_moment", "SectionRows",
-    "section_rows",
+    "resistance_columns", "required_scale", "solution_of", "tension_centroid", "tension_moment", "OutlineRows",
+    "BarRows", "outline_rows", "bar_rows",
 ]
 
 TWO_PI = 2.0 * math.pi
@@ -92,24 +92,34 @@ STEEL_FIELDS = 5  # area, depth, db, counted, tension steel
 
 
 @dataclass(frozen=True, slots=True)
-class SectionRows:
-    """One section's rows of :class:`SectionColumns`, flat and not yet padded: its bands
-    (y0, y1, width each) and its bars (area, depth, db, counted, tension steel each; the two
-    flags as 1.0 or 0.0), with h, the depth a missing band is padded at."""
+class OutlineRows:
+    """An outline's rows of :class:`SectionColumns`, flat and not yet padded: y0, y1, width of
+    each band, with h, the depth a missing band is padded at."""
 
-    bands: tuple[float, ...]
-    steel: tuple[float, ...]
-    n_bands: int
-    n_bars: int
+    values: tuple[float, ...]
+    n: int
     h: float
 
 
-def section_rows(outline: tuple[Rect, ...], bars: tuple[SolverBar, ...]) -> SectionRows:
-    """The rows of one section (outline, bars) in :class:`SectionColumns`."""
-    bands = tuple(v for r in outline for v in (r.y0, r.y1, r.width))
-    steel = tuple(v for b in bars for v in (b.area, b.depth, b.db, 1.0 if b.counted else 0.0,
-                                            1.0 if b.tension_steel else 0.0))
-    return SectionRows(bands, steel, len(outline), len(bars), max(r.y1 for r in outline))
+@dataclass(frozen=True, slots=True)
+class BarRows:
+    """A section's bars as rows of :class:`SectionColumns`, flat and not yet padded: area,
+    depth, db, counted, tension steel of each (the two flags as 1.0 or 0.0)."""
+
+    values: tuple[float, ...]
+    n: int
+
+
+def outline_rows(outline: tuple[Rect, ...]) -> OutlineRows:
+    """The rows of an outline in :class:`SectionColumns`."""
+    return OutlineRows(tuple(v for r in outline for v in (r.y0, r.y1, r.width)), len(outline),
+                       max(r.y1 for r in outline))
+
+
+def bar_rows(bars: tuple[SolverBar, ...]) -> BarRows:
+    """The rows of a section's bars in :class:`SectionColumns`."""
+    return BarRows(tuple(v for b in bars for v in (b.area, b.depth, b.db, 1.0 if b.counted else 0.0,
+                                                   1.0 if b.tension_steel else 0.0)), len(bars))
 
 
 @dataclass(frozen=True, slots=True)
@@ -154,20 +164,23 @@ class SectionColumns:
               fy: Sequence[float], phi_s: Sequence[float], Es: Sequence[float], beta1: Sequence[float],
               eps_cu: Sequence[float]) -> SectionColumns:
         """Columns of the sections given as (outline, bars), with per-section strengths."""
-        return SectionColumns.of_rows([section_rows(o, b) for o, b in sections], fcd, fy, phi_s, Es, beta1, eps_cu)
+        return SectionColumns.of_rows([outline_rows(o) for o, _ in sections], [bar_rows(b) for _, b in sections],
+                                      fcd, fy, phi_s, Es, beta1, eps_cu)
 
     @staticmethod
-    def of_rows(rows: Sequence[SectionRows], fcd: Sequence[float], fy: Sequence[float], phi_s: Sequence[float],
-                Es: Sequence[float], beta1: Sequence[float], eps_cu: Sequence[float]) -> SectionColumns:
-        """Columns of sections given by their :func:`section_rows` (a section that recurs keeps
-        its rows), with per-section strengths; each row padded as :meth:`stack` describes."""
-        nb = max((r.n_bands for r in rows), default=1)
-        nl = max((r.n_bars for r in rows), default=1) or 1
+    def of_rows(outlines: Sequence[OutlineRows], bars: Sequence[BarRows], fcd: Sequence[float],
+                fy: Sequence[float], phi_s: Sequence[float], Es: Sequence[float], beta1: Sequence[float],
+                eps_cu: Sequence[float]) -> SectionColumns:
+        """Columns of sections given by the rows of their outlines and bars (:func:`outline_rows`,
+        :func:`bar_rows`: a section that recurs keeps its rows), with per-section strengths; each
+        row padded as :meth:`stack` describes."""
+        nb = max((r.n for r in outlines), default=1)
+        nl = max((r.n for r in bars), default=1) or 1
         no_bar = (0.0,) * STEEL_FIELDS
-        bands = [r.bands if r.n_bands == nb else r.bands + (r.h, r.h, 0.0) * (nb - r.n_bands) for r in rows]
-        steel = [r.steel if r.n_bars == nl else r.steel + no_bar * (nl - r.n_bars) for r in rows]
-        b = np.array(bands, float).reshape(len(rows), nb, BAND_FIELDS)
-        st = np.array(steel, float).reshape(len(rows), nl, STEEL_FIELDS)
+        bands = [r.values if r.n == nb else r.values + (r.h, r.h, 0.0) * (nb - r.n) for r in outlines]
+        steel = [r.values if r.n == nl else r.values + no_bar * (nl - r.n) for r in bars]
+        b = np.array(bands, float).reshape(len(outlines), nb, BAND_FIELDS)
+        st = np.array(steel, float).reshape(len(bars), nl, STEEL_FIELDS)
         y0, y1, width = b[:, :, 0].copy(), b[:, :, 1].copy(), b[:, :, 2].copy()
         area, depth, db = st[:, :, 0].copy(), st[:, :, 1].copy(), st[:, :, 2].copy()
         counted, tension = st[:, :, 3] != 0, st[:, :, 4] != 0
