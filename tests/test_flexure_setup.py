@@ -21,7 +21,7 @@ from beamsched.engine import validate
 from beamsched.model import BeamInput
 from beamsched.schedule import read_schedule
 from beamsched.schedule.samples import generate_schedule
-from beamsched.section import Rect
+from beamsched.section import Rect, Section
 from beamsched.solve.flexure import SectionColumns, SolverBar, bar_rows, outline_rows
 
 N_SPANS = 120
@@ -94,8 +94,8 @@ def test_equal_parts_are_shared_and_each_entry_holds_what_its_key_names(inputs):
         distinct = {id(getattr(case, part)) for case in cases}
         assert len(distinct) < len(cases)  # a generated schedule repeats sections and bars
         assert len(memo) == len(distinct)
-    for (section, face), concrete in context._OUTLINES.items():
-        assert concrete.compression_face == face and concrete.outline == section.outline_from(face)
+    for (face, *values), concrete in context._OUTLINES.items():
+        assert concrete.compression_face == face and concrete.outline == Section(*values).outline_from(face)
     for key, steel in context._SOLVER_BARS.items():
         # the ids in a key are those of placements the entry holds: never reused by another object
         assert key[0] == id(steel.tension_placed) and key[1] == id(steel.compression_placed)

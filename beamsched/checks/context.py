@@ -285,8 +285,9 @@ _OUTLINES: dict[tuple, CaseOutline] = {}
 
 def case_outline(section: Section, comp_face: Literal["top", "bottom"]) -> CaseOutline:
     """A section seen from its compression face. Each distinct one is made once and remembered
-    (up to :data:`PLACEMENTS_KEPT`; keyed by the section's values)."""
-    key = (section, comp_face)
+    (up to :data:`PLACEMENTS_KEPT`; keyed by the section's values, as a plain tuple: cheaper to
+    hash and compare than the section itself)."""
+    key = (comp_face, section.shape, section.bw, section.h, section.hf, section.bf)
     held = _OUTLINES.get(key)
     if held is None:
         outline = section.outline_from(comp_face)
@@ -340,9 +341,10 @@ def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) ->
     todo_steel: list[CaseBars] = []
     asked: set[tuple[int, tuple[Sense, Location]]] = set()  # the same case asked for twice is solved once
     for ctx, key in wanted:
-        if key in ctx._flexure or (id(ctx), key) in asked:
+        mark = (id(ctx), key)
+        if key in ctx._flexure or mark in asked:
             continue
-        asked.add((id(ctx), key))
+        asked.add(mark)
         prepared = ctx._prepare(*key)
         if isinstance(prepared, str):
             ctx._flexure[key] = prepared
