@@ -71,7 +71,9 @@ class FlexureCase:
 
     The checks read ``Mr``, ``As``, ``c`` and ``c_over_d``; the whole :attr:`solution` (every
     bar's state, the forces and where they act) is made from the solved columns only when first
-    read, by the trace."""
+    read, by the trace. What does not depend on the span (the outline seen from the compression
+    face, the bars as the solver sees them, d) it shares with every case of an equal section
+    (``concrete``) and of the same placed bars (``steel``)."""
 
     sense: Sense
     location: Location
