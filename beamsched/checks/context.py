@@ -20,13 +20,18 @@ from ..codes import DesignCode, FlangeWidth
 from ..model import BeamInput, CheckResult, CheckStatus, Location, TraceLine
 from ..section import PlacedBars, Rect, Section, centroid_depth, place_bars
 from ..solve.flexure import (
+    BarRows,
     FlexureSolution,
+    OutlineRows,
     SectionColumns,
     SolvedColumns,
     SolverBar,
+    bar_rows,
+    outline_rows,
     solution_of,
     solve_columns,
     tension_centroid,
+    tension_moment,
 )
 
 Sense = Literal["pos", "neg"]
@@ -36,23 +41,46 @@ N_PER_KN = 1e3
 NMM_PER_KNM = 1e6
 
 
+@dataclass(frozen=True, slots=True, eq=False)
+class CaseOutline:
+    """A flexural case's outline seen from its compression face, and its rows in
+    :class:`SectionColumns`; the same for every span with an equal section (:func:`case_outline`)."""
+
+    compression_face: Literal["top", "bottom"]
+    outline: tuple[Rect, ...]
+    rows: OutlineRows
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class CaseBars:
+    """A flexural case's bars as the solver sees them, and their rows in :class:`SectionColumns`;
+    the same for every span with the same placed bars, depth and ties (:func:`case_bars`)."""
+
+    tension_placed: tuple[PlacedBars, ...]  # depths below the tension face
+    compression_placed: tuple[PlacedBars, ...]  # depths below the compression face
+    tied: bool
+    bars: tuple[SolverBar, ...]
+    d: float  # depth of the tension-steel centroid below the compression face (mm)
+    moment: float  # first moment of the tension steel's area about the compression face (mm³)
+    rows: BarRows
+
+
 @dataclass(frozen=True, slots=True)
 class FlexureCase:
     """One flexural section: which bars are in tension and compression, and its solution.
 
     The checks read ``Mr``, ``As``, ``c`` and ``c_over_d``; the whole :attr:`solution` (every
     bar's state, the forces and where they act) is made from the solved columns only when first
-    read, by the trace."""
+    read, by the trace. What does not depend on the span (the outline seen from the compression
+    face, the bars as the solver sees them, d) it shares with every case of an equal section
+    (``concrete``) and of the same placed bars (``steel``)."""
 
     sense: Sense
     location: Location
-    compression_face: Literal["top", "bottom"]
     tension_bars: BarArrangement
-    tension_placed: tuple[PlacedBars, ...]  # depths below the tension face
     compression_bars: BarArrangement | None
-    compression_placed: tuple[PlacedBars, ...]  # depths below the compression face
-    compression_tied: bool
-    d: float  # depth of the tension-steel centroid below the compression face (mm)
+    concrete: CaseOutline
+    steel: CaseBars
     Mr: float  # N·mm, factored resistance
     As: float  # area of the flexural tension steel (mm²)
     c: float  # neutral-axis depth (mm)
@@ -60,10 +88,37 @@ class FlexureCase:
     columns: SectionColumns  # the sections it was solved with, and its row there (for As,req)
     solved: SolvedColumns
     row: int
-    outline: tuple[Rect, ...]
-    bars: tuple[SolverBar, ...]
     alpha1: float
     _solution: list = field(default_factory=list, repr=False, compare=False)
+
+    @property
+    def compression_face(self) -> Literal["top", "bottom"]:
+        return self.concrete.compression_face
+
+    @property
+    def tension_placed(self) -> tuple[PlacedBars, ...]:
+        return self.steel.tension_placed
+
+    @property
+    def compression_placed(self) -> tuple[PlacedBars, ...]:
+        return self.steel.compression_placed
+
+    @property
+    def compression_tied(self) -> bool:
+        return self.steel.tied
+
+    @property
+    def d(self) -> float:
+        """Depth of the tension-steel centroid below the compression face (mm)."""
+        return self.steel.d
+
+    @property
+    def outline(self) -> tuple[Rect, ...]:
+        return self.concrete.outline
+
+    @property
+    def bars(self) -> tuple[SolverBar, ...]:
+        return self.steel.bars
 
     @property
     def solution(self) -> FlexureSolution:
@@ -126,6 +181,7 @@ class SpanContext:
         self.shear: object | None = None  # this span's part of checks.shear.prepare's columns
         # As,req by (sense, location, Mf): see checks.flexure.required_steel
         self.required: dict[tuple[Sense, Location, float], float] = {}
+        self._strengths: tuple[float, float, float, float, float, float] | None = None  # see flexure_strengths
         self.flange: FlangeWidth | None = None
         bf = None
         if inp.shape in ("T", "L") and inp.hf is not None:
@@ -200,9 +256,20 @@ class SpanContext:
             solve_cases([(self, key)])
         return self._flexure[key]
 
-    def _prepare(self, sense: Sense, location: Location) -> tuple | str:
-        """What the solver needs for a case (its bars as seen from the compression face), or
-        the reason there is no case."""
+    def flexure_strengths(self) -> tuple[float, float, float, float, float, float]:
+        """The strengths and factors of this span's flexural sections, as the solver's columns
+        take them: α1 φc f'c, fy, φs, Es, β1, εcu."""
+        held = self._strengths
+        if held is None:
+            block = self.block
+            held = self._strengths = (block.alpha1 * self.phi_c * self.inp.fc, self.inp.fy, self.phi_s, self.code.Es,
+                                      block.beta1, block.eps_cu)
+        return held
+
+    def _prepare(self, sense: Sense, location: Location
+                 ) -> tuple[BarArrangement, BarArrangement | None, CaseOutline, CaseBars] | str:
+        """What the solver needs for a case (tension bars, compression bars, the outline seen from
+        the compression face and the bars as the solver sees them), or the reason there is no case."""
         inp = self.inp
         tension, compression, name = self.bars_for(sense, location)
         if tension is None:
@@ -211,68 +278,97 @@ class SpanContext:
         tens_face = "bottom" if sense == "pos" else "top"
         t_placed = self.place(tension, tens_face, tension=True)
         c_placed = self.place(compression, comp_face, tension=False) if compression else ()
-        tied = inp.stirrups is not None
-        return (comp_face, tension, t_placed, compression, c_placed, tied, self.section.outline_from(comp_face),
-                solver_bars(t_placed, c_placed, inp.h, tied))
+        return (tension, compression, case_outline(self.section, comp_face),
+                case_bars(t_placed, c_placed, inp.h, inp.stirrups is not None))
 
 
-_SOLVER_BARS: dict[tuple, tuple] = {}
+_OUTLINES: dict[tuple, CaseOutline] = {}
+
+
+def case_outline(section: Section, comp_face: Literal["top", "bottom"]) -> CaseOutline:
+    """A section seen from its compression face. Each distinct one is made once and remembered
+    (up to :data:`PLACEMENTS_KEPT`; keyed by the section's values, as a plain tuple: cheaper to
+    hash and compare than the section itself)."""
+    key = (comp_face, section.shape, section.bw, section.h, section.hf, section.bf)
+    held = _OUTLINES.get(key)
+    if held is None:
+        outline = section.outline_from(comp_face)
+        if len(_OUTLINES) >= PLACEMENTS_KEPT:
+            _OUTLINES.clear()
+        held = _OUTLINES[key] = CaseOutline(comp_face, outline, outline_rows(outline))
+    return held
+
+
+_SOLVER_BARS: dict[tuple, CaseBars] = {}
+
+
+def case_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float, tied: bool) -> CaseBars:
+    """The bars of a flexural case as the solver sees them (:func:`solver_bars`), with d and the
+    tension steel's first moment. Placements are shared (:func:`placement`), so each distinct
+    case is made once and remembered (up to :data:`PLACEMENTS_KEPT`); an entry holds the
+    placements whose ids its key uses, so those ids stay theirs."""
+    key = (id(t_placed), id(c_placed), h, tied)
+    held = _SOLVER_BARS.get(key)
+    if held is None:
+        bars = solver_bars(t_placed, c_placed, h, tied)
+        if len(_SOLVER_BARS) >= PLACEMENTS_KEPT:
+            _SOLVER_BARS.clear()
+        held = _SOLVER_BARS[key] = CaseBars(t_placed, c_placed, tied, bars, h - centroid_depth(t_placed),
+                                            tension_moment(bars), bar_rows(bars))
+    return held
 
 
 def solver_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float,
                 tied: bool) -> tuple[SolverBar, ...]:
     """The bars of a flexural case as the solver sees them, by depth below the compression face:
     the tension bars (placed below the tension face, in a section h deep) and the compression
-    bars (counted only when ``tied``). Placements are shared (:func:`placement`), so each
-    distinct case is made once; an entry holds its placements, so their ids stay theirs."""
-    key = (id(t_placed), id(c_placed), h, tied)
-    held = _SOLVER_BARS.get(key)
-    if held is not None:
-        return held[2]
-    bars = tuple(
+    bars (counted only when ``tied``)."""
+    return tuple(
         SolverBar(p.area, h - p.depth, p.db, f"{p.count}-{p.size} layer {p.layer}", True, True)
         for p in t_placed
     ) + tuple(
         SolverBar(p.area, p.depth, p.db, f"{p.count}-{p.size} layer {p.layer} (compression)", tied, False)
         for p in c_placed
     )
-    if len(_SOLVER_BARS) >= PLACEMENTS_KEPT:
-        _SOLVER_BARS.clear()
-    _SOLVER_BARS[key] = (t_placed, c_placed, bars)
-    return bars
 
 
 def solve_cases(wanted: Iterable[tuple[SpanContext, tuple[Sense, Location]]]) -> None:
     """Solve the flexural cases of many spans at once (one set of columns, one solve: see
     :mod:`beamsched.solve.flexure`) and keep each in its span's context. A case already solved
     is not solved again; one without tension bars keeps the reason."""
-    todo: list[tuple[SpanContext, tuple[Sense, Location], tuple]] = []
+    todo_ctx: list[SpanContext] = []
+    todo_key: list[tuple[Sense, Location]] = []
+    todo_bars: list[tuple[BarArrangement, BarArrangement | None]] = []
+    todo_shape: list[CaseOutline] = []
+    todo_steel: list[CaseBars] = []
     asked: set[tuple[int, tuple[Sense, Location]]] = set()  # the same case asked for twice is solved once
     for ctx, key in wanted:
-        if key in ctx._flexure or (id(ctx), key) in asked:
+        mark = (id(ctx), key)
+        if key in ctx._flexure or mark in asked:
             continue
-        asked.add((id(ctx), key))
+        asked.add(mark)
         prepared = ctx._prepare(*key)
         if isinstance(prepared, str):
             ctx._flexure[key] = prepared
         else:
-            todo.append((ctx, key, prepared))
-    if not todo:
+            todo_ctx.append(ctx)
+            todo_key.append(key)
+            todo_bars.append(prepared[:2])
+            todo_shape.append(prepared[2])
+            todo_steel.append(prepared[3])
+    if not todo_ctx:
         return
-    columns = SectionColumns.stack(
-        [(p[6], p[7]) for _, _, p in todo],
-        fcd=[c.block.alpha1 * c.phi_c * c.inp.fc for c, _, _ in todo], fy=[c.inp.fy for c, _, _ in todo],
-        phi_s=[c.phi_s for c, _, _ in todo], Es=[c.code.Es for c, _, _ in todo],
-        beta1=[c.block.beta1 for c, _, _ in todo], eps_cu=[c.block.eps_cu for c, _, _ in todo],
-    )
-    known = [ctx.roots.get(key) for ctx, key, _ in todo]
+    fcd, fy, phi_s, Es, beta1, eps_cu = zip(*[ctx.flexure_strengths() for ctx in todo_ctx], strict=True)
+    columns = SectionColumns.of_rows([shape.rows for shape in todo_shape], [steel.rows for steel in todo_steel],
+                                     fcd, fy, phi_s, Es, beta1, eps_cu)
+    known = [ctx.roots.get(key) for ctx, key in zip(todo_ctx, todo_key, strict=True)] if any(
+        ctx.roots for ctx in todo_ctx) else []
     solved = solve_columns(columns, None if not any(v is not None for v in known) else
                            np.array([np.nan if v is None else v for v in known]))
     mr, area, depth = solved.Mr.tolist(), solved.As.tolist(), solved.c.tolist()
-    for i, (ctx, (sense, location), p) in enumerate(todo):
-        comp_face, tension, t_placed, compression, c_placed, tied, outline, bars = p
-        d_solved = tension_centroid(bars, area[i])
-        ctx._flexure[(sense, location)] = FlexureCase(
-            sense, location, comp_face, tension, t_placed, compression, c_placed, tied,
-            ctx.inp.h - centroid_depth(t_placed), mr[i], area[i], depth[i],
-            depth[i] / d_solved if d_solved > 0 else math.inf, columns, solved, i, outline, bars, ctx.block.alpha1)
+    for i, (ctx, key, (tension, compression), shape, steel) in enumerate(
+            zip(todo_ctx, todo_key, todo_bars, todo_shape, todo_steel, strict=True)):
+        d_solved = tension_centroid(steel.bars, area[i], steel.moment)
+        ctx._flexure[key] = FlexureCase(
+            key[0], key[1], tension, compression, shape, steel, mr[i], area[i], depth[i],  # type: ignore[arg-type]
+            depth[i] / d_solved if d_solved > 0 else math.inf, columns, solved, i, ctx.block.alpha1)

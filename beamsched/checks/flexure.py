@@ -32,6 +32,7 @@ def demand(ctx: SpanContext, sense: Sense, location: Location) -> float | None:
     return demand_of(ctx.inp, sense, location)
 
 
+MIDSPAN: tuple[Sense, Location] = ("pos", "mid")  # always solved: scope reads its Mr
 DEMAND_FIELDS = {("pos", "mid"): "Mf_pos", ("pos", "left"): "Mf_pos_left", ("pos", "right"): "Mf_pos_right",
                  ("neg", "left"): "Mf_neg_left", ("neg", "right"): "Mf_neg_right"}
 
@@ -199,14 +200,20 @@ def _required(flex: Sequence[FlexureCase], mf: Sequence[float]) -> list[float]:
 def prepare(contexts: Sequence[SpanContext]) -> None:
     """Solve every flexural section of these spans at once, and the steel each moment requires
     (the checks then read them): one set of columns, whatever the number of spans."""
-    keys = [(ctx, key) for ctx in contexts for key in dict.fromkeys([*cases(ctx), ("pos", "mid")])]
-    solve_cases(keys)  # type: ignore[arg-type]
+    keys: list[tuple[SpanContext, tuple[Sense, Location]]] = []
+    for ctx in contexts:
+        wanted = cases(ctx)
+        keys.extend((ctx, key) for key in wanted)
+        if MIDSPAN not in wanted:
+            keys.append((ctx, MIDSPAN))
+    solve_cases(keys)
     need: list[tuple[SpanContext, FlexureCase, float]] = []
-    for ctx, (sense, loc) in keys:
-        case = ctx.flexure(sense, loc)  # type: ignore[arg-type]
-        mf = demand(ctx, sense, loc)  # type: ignore[arg-type]
-        if isinstance(case, FlexureCase) and mf is not None and (sense, loc, mf) not in ctx.roots:
-            need.append((ctx, case, mf))
+    for ctx, key in keys:
+        case = ctx._flexure[key]
+        if isinstance(case, FlexureCase):
+            mf = getattr(ctx.inp, DEMAND_FIELDS[key])
+            if mf is not None and (*key, mf) not in ctx.roots:
+                need.append((ctx, case, mf))
     for (ctx, case, mf), as_req in zip(need, _required([c for _, c, _ in need], [m for _, _, m in need]), strict=True):
         ctx.required[(case.sense, case.location, mf)] = as_req
 
@@ -254,17 +261,19 @@ CASE_KEYS: tuple[tuple[Sense, Location], ...] = (("pos", "mid"), ("neg", "left")
                                                  ("pos", "left"), ("pos", "right"))
 
 
+CASE_INDEX = {key: j for j, key in enumerate(CASE_KEYS)}
+
+
 def found_roots(ctx: SpanContext) -> list[float]:
     """What the searches found for a span, in a fixed order (NaN where none): the neutral-axis
     depth of each case of :data:`CASE_KEYS`, then the As,req of each. A trace worked out again
     starts from them (:func:`given_roots`) and so shows the numbers the checks found."""
     out = [math.nan] * (2 * len(CASE_KEYS))
-    for j, key in enumerate(CASE_KEYS):
-        case = ctx._flexure.get(key)
+    for key, case in ctx._flexure.items():
         if isinstance(case, FlexureCase):
-            out[j] = case.c
+            out[CASE_INDEX[key]] = case.c
     for (sense, loc, _), value in ctx.required.items():
-        out[len(CASE_KEYS) + CASE_KEYS.index((sense, loc))] = value
+        out[len(CASE_KEYS) + CASE_INDEX[(sense, loc)]] = value
     return out
 
 

@@ -29,7 +29,8 @@ from .roots import bracketed_roots
 
 __all__ = [
     "SolverBar", "FlexureSolution", "BarState", "SectionColumns", "SolvedColumns", "solve_columns",
-    "resistance_columns", "required_scale", "solution_of", "tension_centroid",
+    "resistance_columns", "required_scale", "solution_of", "tension_centroid", "tension_moment", "OutlineRows",
+    "BarRows", "outline_rows", "bar_rows",
 ]
 
 TWO_PI = 2.0 * math.pi
@@ -86,6 +87,41 @@ class FlexureSolution:
         return self.c / self.d if self.d > 0 else math.inf
 
 
+BAND_FIELDS = 3  # y0, y1, width
+STEEL_FIELDS = 5  # area, depth, db, counted, tension steel
+
+
+@dataclass(frozen=True, slots=True)
+class OutlineRows:
+    """An outline's rows of :class:`SectionColumns`, flat and not yet padded: y0, y1, width of
+    each band, with h, the depth a missing band is padded at."""
+
+    values: tuple[float, ...]
+    n: int
+    h: float
+
+
+@dataclass(frozen=True, slots=True)
+class BarRows:
+    """A section's bars as rows of :class:`SectionColumns`, flat and not yet padded: area,
+    depth, db, counted, tension steel of each (the two flags as 1.0 or 0.0)."""
+
+    values: tuple[float, ...]
+    n: int
+
+
+def outline_rows(outline: tuple[Rect, ...]) -> OutlineRows:
+    """The rows of an outline in :class:`SectionColumns`."""
+    return OutlineRows(tuple(v for r in outline for v in (r.y0, r.y1, r.width)), len(outline),
+                       max(r.y1 for r in outline))
+
+
+def bar_rows(bars: tuple[SolverBar, ...]) -> BarRows:
+    """The rows of a section's bars in :class:`SectionColumns`."""
+    return BarRows(tuple(v for b in bars for v in (b.area, b.depth, b.db, 1.0 if b.counted else 0.0,
+                                                   1.0 if b.tension_steel else 0.0)), len(bars))
+
+
 @dataclass(frozen=True, slots=True)
 class SectionColumns:
     """Flexural sections as columns, one row per section, seen from its compression face.
@@ -128,17 +164,23 @@ class SectionColumns:
               fy: Sequence[float], phi_s: Sequence[float], Es: Sequence[float], beta1: Sequence[float],
               eps_cu: Sequence[float]) -> SectionColumns:
         """Columns of the sections given as (outline, bars), with per-section strengths."""
-        nb = max((len(o) for o, _ in sections), default=1)
-        nl = max((len(b) for _, b in sections), default=1) or 1
-        bands: list[list[tuple[float, float, float]]] = []
-        steel: list[list[tuple[float, float, float, bool, bool]]] = []
-        for outline, bars in sections:
-            h = max(r.y1 for r in outline)
-            bands.append([(r.y0, r.y1, r.width) for r in outline] + [(h, h, 0.0)] * (nb - len(outline)))
-            steel.append([(b.area, b.depth, b.db, b.counted, b.tension_steel) for b in bars]
-                         + [(0.0, 0.0, 0.0, False, False)] * (nl - len(bars)))
-        b = np.array(bands, float).reshape(len(sections), nb, 3)
-        st = np.array(steel, float).reshape(len(sections), nl, 5)
+        return SectionColumns.of_rows([outline_rows(o) for o, _ in sections], [bar_rows(b) for _, b in sections],
+                                      fcd, fy, phi_s, Es, beta1, eps_cu)
+
+    @staticmethod
+    def of_rows(outlines: Sequence[OutlineRows], bars: Sequence[BarRows], fcd: Sequence[float],
+                fy: Sequence[float], phi_s: Sequence[float], Es: Sequence[float], beta1: Sequence[float],
+                eps_cu: Sequence[float]) -> SectionColumns:
+        """Columns of sections given by the rows of their outlines and bars (:func:`outline_rows`,
+        :func:`bar_rows`: a section that recurs keeps its rows), with per-section strengths; each
+        row padded as :meth:`stack` describes."""
+        nb = max((r.n for r in outlines), default=1)
+        nl = max((r.n for r in bars), default=1) or 1
+        no_bar = (0.0,) * STEEL_FIELDS
+        bands = [r.values if r.n == nb else r.values + (r.h, r.h, 0.0) * (nb - r.n) for r in outlines]
+        steel = [r.values if r.n == nl else r.values + no_bar * (nl - r.n) for r in bars]
+        b = np.array(bands, float).reshape(len(outlines), nb, BAND_FIELDS)
+        st = np.array(steel, float).reshape(len(bars), nl, STEEL_FIELDS)
         y0, y1, width = b[:, :, 0].copy(), b[:, :, 1].copy(), b[:, :, 2].copy()
         area, depth, db = st[:, :, 0].copy(), st[:, :, 1].copy(), st[:, :, 2].copy()
         counted, tension = st[:, :, 3] != 0, st[:, :, 4] != 0
@@ -356,10 +398,17 @@ def required_scale(s: SectionColumns, Mr: np.ndarray, mf: np.ndarray) -> np.ndar
     return out
 
 
-def tension_centroid(bars: tuple[SolverBar, ...], As: float) -> float:
+def tension_moment(bars: tuple[SolverBar, ...]) -> float:
+    """The first moment of the flexural tension steel's area about the compression face (mm³)."""
+    return sum(b.area * b.depth for b in bars if b.tension_steel)
+
+
+def tension_centroid(bars: tuple[SolverBar, ...], As: float, moment: float | None = None) -> float:
     """d: the depth of the centroid of the flexural tension steel below the compression face
-    (0 without tension steel)."""
-    return sum(b.area * b.depth for b in bars if b.tension_steel) / As if As > 0 else 0.0
+    (0 without tension steel); ``moment``: :func:`tension_moment` of the bars, if known."""
+    if moment is None:
+        moment = tension_moment(bars)
+    return moment / As if As > 0 else 0.0
 
 
 def solution_of(s: SectionColumns, solved: SolvedColumns, i: int, outline: tuple[Rect, ...],
