@@ -228,11 +228,6 @@ class SpanContext:
         self.results.append((id, label, location, clause, status, sys.intern(message), demand, capacity, unit,
                              utilisation, required))
 
-    def add(self, result: CheckResult) -> None:
-        """Add a result made as a :class:`CheckResult` (as :meth:`result`)."""
-        self.result(result.id, result.label, result.location, result.clause, result.status, result.message,
-                    result.demand, result.capacity, result.unit, result.utilisation, result.required)
-
     def checks(self) -> tuple[CheckResult, ...]:
         """The results added so far, as objects."""
         return tuple(CheckResult(*row) for row in self.results)
