@@ -11,7 +11,7 @@ import numpy as np
 
 from .bars import BarArrangement
 from .checks import CHECK_MODULES, flexure
-from .checks.context import PLACEMENTS_KEPT, SpanContext, placement
+from .checks.context import Remembered, SpanContext, placement
 from .codes import DesignCode, get_code
 from .collector import gc_paused
 from .model import (
@@ -156,7 +156,7 @@ def _understood(ctx: SpanContext) -> None:
 UNDERSTOOD_BARS = (("bottom bars", "bottom_bars", "bottom", True), ("top bars L", "top_bars_left", "top", True),
                    ("top bars R", "top_bars_right", "top", True), ("top bars mid", "top_bars_mid", "top", False),
                    ("bottom bars at supports", "bottom_bars_support", "bottom", True))
-_WORDS: dict[tuple, tuple] = {}
+_WORDS: Remembered = Remembered()
 
 
 def _bars_in_words(bars: BarArrangement, placed: tuple[PlacedBars, ...], h: float) -> str:
@@ -169,9 +169,7 @@ def _bars_in_words(bars: BarArrangement, placed: tuple[PlacedBars, ...], h: floa
         depths = ", ".join(f"{p.count}-{p.size} at {h - p.depth:.1f}" for p in placed)
         text = f"{bars}: As = {bars.area:.0f} mm²; d = {depths} mm" + (
             " (explicit d, lumped)" if placed and placed[0].lumped else "")
-        if len(_WORDS) >= PLACEMENTS_KEPT:
-            _WORDS.clear()
-        held = _WORDS[key] = (placed, text)
+        held = _WORDS.put(key, (placed, text))
     return held[1]
 
 

@@ -128,8 +128,22 @@ class FlexureCase:
         return self._solution[0]
 
 
-_PLACEMENTS: dict[tuple, tuple[PlacedBars, ...]] = {}
-PLACEMENTS_KEPT = 4096  # distinct placements remembered (a building repeats a few hundred)
+PLACEMENTS_KEPT = 4096  # distinct values each memo remembers (a building repeats a few hundred)
+
+
+class Remembered(dict):
+    """A memo of a pure function of the values in its keys, bounded: when it holds
+    :data:`PLACEMENTS_KEPT` entries it forgets them all and starts again (a schedule repeats a
+    few hundred distinct values, so this is rare and costs only their working out again)."""
+
+    def put(self, key, value):
+        if len(self) >= PLACEMENTS_KEPT:
+            self.clear()
+        self[key] = value
+        return value
+
+
+_PLACEMENTS: Remembered = Remembered()
 
 
 def placement(inp: BeamInput, code: DesignCode, bars: BarArrangement, face: Literal["top", "bottom"],
@@ -149,9 +163,7 @@ def placement(inp: BeamInput, code: DesignCode, bars: BarArrangement, face: Lite
                 return inp.layer_clear
             return code.bar_clear_spacing(max(db_below, db_above), inp.agg)
 
-        if len(_PLACEMENTS) >= PLACEMENTS_KEPT:
-            _PLACEMENTS.clear()
-        placed = _PLACEMENTS[key] = place_bars(bars, cover, stirrup_db, clear, explicit)
+        placed = _PLACEMENTS.put(key, place_bars(bars, cover, stirrup_db, clear, explicit))
     return placed
 
 
@@ -277,7 +289,7 @@ class SpanContext:
                 case_bars(t_placed, c_placed, inp.h, inp.stirrups is not None))
 
 
-_OUTLINES: dict[tuple, CaseOutline] = {}
+_OUTLINES: Remembered = Remembered()
 
 
 def case_outline(section: Section, comp_face: Literal["top", "bottom"]) -> CaseOutline:
@@ -288,13 +300,11 @@ def case_outline(section: Section, comp_face: Literal["top", "bottom"]) -> CaseO
     held = _OUTLINES.get(key)
     if held is None:
         outline = section.outline_from(comp_face)
-        if len(_OUTLINES) >= PLACEMENTS_KEPT:
-            _OUTLINES.clear()
-        held = _OUTLINES[key] = CaseOutline(comp_face, outline, outline_rows(outline))
+        held = _OUTLINES.put(key, CaseOutline(comp_face, outline, outline_rows(outline)))
     return held
 
 
-_SOLVER_BARS: dict[tuple, CaseBars] = {}
+_SOLVER_BARS: Remembered = Remembered()
 
 
 def case_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float, tied: bool) -> CaseBars:
@@ -306,10 +316,8 @@ def case_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...]
     held = _SOLVER_BARS.get(key)
     if held is None:
         bars = solver_bars(t_placed, c_placed, h, tied)
-        if len(_SOLVER_BARS) >= PLACEMENTS_KEPT:
-            _SOLVER_BARS.clear()
-        held = _SOLVER_BARS[key] = CaseBars(t_placed, c_placed, tied, bars, h - centroid_depth(t_placed),
-                                            tension_moment(bars), bar_rows(bars))
+        held = _SOLVER_BARS.put(key, CaseBars(t_placed, c_placed, tied, bars, h - centroid_depth(t_placed),
+                                              tension_moment(bars), bar_rows(bars)))
     return held
 
 

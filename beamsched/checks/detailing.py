@@ -28,7 +28,7 @@ from ..bars import BarArrangement
 from ..codes.base import DetailingProvisions
 from ..model import CheckStatus, Location
 from ..solve.shear import LayerFit, bars_per_layer
-from .context import SpanContext
+from .context import Remembered, SpanContext
 from .flexure import cases
 
 NUMBER_WORDS = {2: "two", 3: "three", 4: "four", 5: "five"}
@@ -44,8 +44,7 @@ def _layer_fit(ctx: SpanContext, code: DetailingProvisions, face: str, db: float
     return bars_per_layer(inp.bw, cover, ds, bend, db, clear), clear, bend_words
 
 
-_FACES: dict[tuple, tuple[tuple[float, int, int], list[str], list[str]]] = {}
-FACES_KEPT = 4096  # distinct faces remembered (a building repeats a few hundred)
+_FACES: Remembered = Remembered()  # see _face
 
 
 def _face(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str, bars: BarArrangement,
@@ -62,9 +61,7 @@ def _face(ctx: SpanContext, code: DetailingProvisions, loc: Location, face: str,
            inp.stirrups, inp.agg, flange, code)
     held = _FACES.get(key)
     if held is None:
-        if len(_FACES) >= FACES_KEPT:
-            _FACES.clear()
-        held = _FACES[key] = _face_worked(ctx, code, loc, face, bars, name)
+        held = _FACES.put(key, _face_worked(ctx, code, loc, face, bars, name))
     return held
 
 

@@ -234,7 +234,6 @@ def _prepare(spans: list[SpanContext], code: DetailingProvisions) -> None:
     d_list: list[float] = []
     as_list: list[float] = []
     vf_list: list[float | None] = []
-    area_of: dict[int, float] = {}  # As of each arrangement (the reader shares arrangements between spans)
     for ctx in spans:
         h_span = ctx.inp.h
         for end in ENDS:
@@ -247,10 +246,7 @@ def _prepare(spans: list[SpanContext], code: DetailingProvisions) -> None:
                 as_list.append(math.nan)
                 continue
             d_list.append(h_span - centroid_depth(ctx.place(bars, side.face, tension=True)))
-            area = area_of.get(id(bars))
-            if area is None:
-                area = area_of[id(bars)] = bars.area
-            as_list.append(area)
+            as_list.append(bars.area)  # worked out once, when the bars were read
     d = np.array(d_list)
     As = np.array(as_list)
     vf = np.array([math.nan if v is None else v for v in vf_list], dtype=float)
