@@ -29,6 +29,7 @@ _PUBLIC = {
     "CheckStatus": "model",
 }
 
+# a literal list, so that linters and type checkers see the public names
 __all__ = ["check_span", "check_beam", "InputError", "BeamInput", "BeamResult", "BeamStatus",
            "CheckResult", "CheckStatus", "CAUTION", "__version__"]
 

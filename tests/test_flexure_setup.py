@@ -106,7 +106,7 @@ def test_what_is_remembered_is_bounded(inputs, monkeypatch):
     spans, code = inputs
     forget()
     reference = prepared(spans, code, len(spans))
-    monkeypatch.setattr(context, "PLACEMENTS_KEPT", 5)
+    monkeypatch.setattr(context, "REMEMBERED_KEPT", 5)
     forget()
     bounded = prepared(spans, code, 3)
     assert len(context._OUTLINES) <= 5 and len(context._SOLVER_BARS) <= 5 and len(context._PLACEMENTS) <= 5

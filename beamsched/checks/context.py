@@ -128,16 +128,16 @@ class FlexureCase:
         return self._solution[0]
 
 
-PLACEMENTS_KEPT = 4096  # distinct values each memo remembers (a building repeats a few hundred)
+REMEMBERED_KEPT = 4096  # distinct values each memo remembers (a building repeats a few hundred)
 
 
 class Remembered(dict):
     """A memo of a pure function of the values in its keys, bounded: when it holds
-    :data:`PLACEMENTS_KEPT` entries it forgets them all and starts again (a schedule repeats a
+    :data:`REMEMBERED_KEPT` entries it forgets them all and starts again (a schedule repeats a
     few hundred distinct values, so this is rare and costs only their working out again)."""
 
     def put(self, key, value):
-        if len(self) >= PLACEMENTS_KEPT:
+        if len(self) >= REMEMBERED_KEPT:
             self.clear()
         self[key] = value
         return value
@@ -294,7 +294,7 @@ _OUTLINES: Remembered = Remembered()
 
 def case_outline(section: Section, comp_face: Literal["top", "bottom"]) -> CaseOutline:
     """A section seen from its compression face. Each distinct one is made once and remembered
-    (up to :data:`PLACEMENTS_KEPT`; keyed by the section's values, as a plain tuple: cheaper to
+    (up to :data:`REMEMBERED_KEPT`; keyed by the section's values, as a plain tuple: cheaper to
     hash and compare than the section itself)."""
     key = (comp_face, section.shape, section.bw, section.h, section.hf, section.bf)
     held = _OUTLINES.get(key)
@@ -310,7 +310,7 @@ _SOLVER_BARS: Remembered = Remembered()
 def case_bars(t_placed: tuple[PlacedBars, ...], c_placed: tuple[PlacedBars, ...], h: float, tied: bool) -> CaseBars:
     """The bars of a flexural case as the solver sees them (:func:`solver_bars`), with d and the
     tension steel's first moment. Placements are shared (:func:`placement`), so each distinct
-    case is made once and remembered (up to :data:`PLACEMENTS_KEPT`); an entry holds the
+    case is made once and remembered (up to :data:`REMEMBERED_KEPT`); an entry holds the
     placements whose ids its key uses, so those ids stay theirs."""
     key = (id(t_placed), id(c_placed), h, tied)
     held = _SOLVER_BARS.get(key)
